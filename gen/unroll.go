@@ -11,8 +11,18 @@ import (
 // counter, its test, the branch and the index's bounds check) cost about
 // as much as the body: unrolled, the bfgs minimizer of Rosenbrock 2-D runs
 // a fifth fewer instructions (bench, callgrind). Past four the copies
-// outgrow the saving in code size.
+// would outgrow the saving in code size: longer loops are unrolled in part
+// (unrollBy).
 const unrollLimit = 4
+
+// unrollBy is how many copies of a loop's body one pass runs past
+// unrollLimit unknowns, and partialBodyLimit the largest body, in AST
+// nodes, so unrolled: at 100 unknowns the loop's bookkeeping and bounds
+// checks were about half the instructions of a dot product.
+const (
+	unrollBy         = 4
+	partialBodyLimit = 40
+)
 
 // unrollBodyLimit is the largest loop body, in AST nodes, that is unrolled:
 // the short loops of the vector and matrix kernels (a dot product, a row of
@@ -44,19 +54,23 @@ func isVec(t types.Type) bool {
 	return ok && n.Obj().Name() == "vec" && n.Obj().Pkg() != nil && n.Obj().Pkg().Path() == "templates"
 }
 
-// unroll returns the range loop n over the unknowns as one copy of its
-// body per index, the index a constant in each, in a block where the loop
-// stood (a loop that reads as one still), or n itself when it is not
-// one to unroll: more than unrollLimit unknowns, a body past
-// unrollBodyLimit, or a loop whose meaning a copy could change (a value
-// variable, a break, continue, goto or label, a function literal, or an
-// index that is assigned or whose address is taken). Each copy keeps the
-// body's statements and their order, so the arithmetic, and what a
-// compiler may fuse, is the same as the loop's. A body that declares a
-// name gets a block of its own in each copy.
+// unroll returns the range loop n over the unknowns unrolled, or n itself
+// when it is not one to unroll: a loop whose meaning a copy could change
+// (a value variable, a break, continue, goto or label, a function literal,
+// or an index that is assigned or whose address is taken), or a body past
+// the size limit. Up to unrollLimit unknowns each index gets one copy of
+// the body, the index a constant, in a block where the loop stood (it
+// reads as one loop still). Past it a body of at most partialBodyLimit
+// nodes runs unrollBy times per pass of a counted loop, the index i, i+1,
+// …, with the last dim mod unrollBy indexes as constants after it; the
+// loop's bound, a multiple of unrollBy, lets the compiler drop the bounds
+// checks of all the copies. Each copy keeps the body's statements and
+// their order, so the arithmetic, and what a compiler may fuse, is the
+// same as the loop's. A body that declares a name gets a block of its own
+// in each copy.
 func (rw *rewriter) unroll(cp *kernelCopier, n *ast.RangeStmt) ast.Node {
 	dim := rw.c.shape.Dim
-	if !cp.dimRanges[n] || dim > unrollLimit || n.Tok != token.DEFINE || n.Value != nil {
+	if !cp.dimRanges[n] || n.Tok != token.DEFINE || n.Value != nil {
 		return n
 	}
 	key, ok := n.Key.(*ast.Ident)
@@ -64,33 +78,88 @@ func (rw *rewriter) unroll(cp *kernelCopier, n *ast.RangeStmt) ast.Node {
 		return n
 	}
 	index := rw.obj(key)
-	if index == nil || !unrollable(n.Body, func(id *ast.Ident) bool { return rw.obj(id) == index }) {
+	limit := unrollBodyLimit
+	if dim > unrollLimit {
+		limit = partialBodyLimit
+	}
+	if index == nil || !unrollable(n.Body, limit, func(id *ast.Ident) bool { return rw.obj(id) == index }) {
 		return n
 	}
-	out := &ast.BlockStmt{Lbrace: n.For, Rbrace: n.Body.Rbrace}
 	declares := declaresAtTop(n.Body)
-	for k := 0; k < dim; k++ {
+	// copyAt appends to list a copy of the body with the index replaced by
+	// what at returns.
+	copyAt := func(list []ast.Stmt, at func(pos token.Pos) ast.Expr) []ast.Stmt {
 		clone := &kernelCopier{src: cp.info, info: cp.info, groups: map[*ast.CommentGroup]*ast.CommentGroup{}, dimRanges: cp.dimRanges}
 		clone.post = func(m ast.Node) ast.Node {
-			if id, ok := m.(*ast.Ident); ok && rw.obj(id) == index {
-				return intLit(k, id.Pos())
+			switch m := m.(type) {
+			case *ast.Ident:
+				if rw.obj(m) == index {
+					return at(m.Pos())
+				}
+			case *ast.IndexExpr:
+				m.Index = unparen(m.Index) // x[(i + 1)] reads x[i+1]
+			case *ast.CallExpr:
+				for j, a := range m.Args {
+					m.Args[j] = unparen(a)
+				}
 			}
 			return m
 		}
 		body := clone.block(n.Body)
 		if declares {
-			out.List = append(out.List, body)
-		} else {
-			out.List = append(out.List, body.List...)
+			return append(list, body)
 		}
+		return append(list, body.List...)
+	}
+	constant := func(k int) func(token.Pos) ast.Expr {
+		return func(pos token.Pos) ast.Expr { return intLit(k, pos) }
+	}
+	out := &ast.BlockStmt{Lbrace: n.For, Rbrace: n.Body.Rbrace}
+	if dim <= unrollLimit {
+		for k := 0; k < dim; k++ {
+			out.List = copyAt(out.List, constant(k))
+		}
+		return out
+	}
+	counter := func(pos token.Pos) *ast.Ident { return &ast.Ident{Name: key.Name, NamePos: pos} }
+	passes := dim - dim%unrollBy
+	loop := &ast.ForStmt{
+		For:  n.For,
+		Init: &ast.AssignStmt{Lhs: []ast.Expr{counter(key.Pos())}, Tok: token.DEFINE, Rhs: []ast.Expr{intLit(0, key.Pos())}},
+		Cond: &ast.BinaryExpr{X: counter(key.Pos()), Op: token.LSS, Y: intLit(passes, key.Pos())},
+		Post: &ast.AssignStmt{Lhs: []ast.Expr{counter(key.Pos())}, Tok: token.ADD_ASSIGN, Rhs: []ast.Expr{intLit(unrollBy, key.Pos())}},
+		Body: &ast.BlockStmt{Lbrace: n.Body.Lbrace, Rbrace: n.Body.Rbrace},
+	}
+	for k := 0; k < unrollBy; k++ {
+		loop.Body.List = copyAt(loop.Body.List, func(pos token.Pos) ast.Expr {
+			if k == 0 {
+				return counter(pos)
+			}
+			return &ast.ParenExpr{Lparen: pos, X: &ast.BinaryExpr{X: counter(pos), OpPos: pos, Op: token.ADD, Y: intLit(k, pos)}, Rparen: pos}
+		})
+	}
+	if passes == dim {
+		return loop
+	}
+	out.List = append(out.List, loop)
+	for k := passes; k < dim; k++ {
+		out.List = copyAt(out.List, constant(k))
 	}
 	return out
 }
 
+// unparen drops the parentheses around e where the context needs none.
+func unparen(e ast.Expr) ast.Expr {
+	if p, ok := e.(*ast.ParenExpr); ok {
+		return p.X
+	}
+	return e
+}
+
 // unrollable reports whether a body may be copied once per index: it
-// stays within unrollBodyLimit nodes and has no statement whose meaning
-// depends on being in a loop, and the index (isIndex) is only read.
-func unrollable(body *ast.BlockStmt, isIndex func(*ast.Ident) bool) bool {
+// stays within limit nodes and has no statement whose meaning depends on
+// being in a loop, and the index (isIndex) is only read.
+func unrollable(body *ast.BlockStmt, limit int, isIndex func(*ast.Ident) bool) bool {
 	nodes, ok := 0, true
 	ast.Inspect(body, func(m ast.Node) bool {
 		if !ok || m == nil {
@@ -117,7 +186,7 @@ func unrollable(body *ast.BlockStmt, isIndex func(*ast.Ident) bool) bool {
 		}
 		return ok
 	})
-	return ok && nodes <= unrollBodyLimit
+	return ok && nodes <= limit
 }
 
 // declaresAtTop reports whether the body declares a name in its own scope,

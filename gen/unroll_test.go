@@ -77,7 +77,7 @@ func hasRange(n ast.Node) bool {
 // that what a compiler fuses is unchanged); past it the loop stays. The
 // BFGS update's nested loops over the matrix unroll to its dim² elements.
 func TestShortVectorLoopsAreUnrolled(t *testing.T) {
-	for _, dim := range []int{1, 2, 4, 5} {
+	for _, dim := range []int{1, 2, 4, 5, 8, 10} {
 		funcs, fset := specializedFuncs(t, "MinValleyCost", dim)
 		dot := funcs["minValleyCostDot"]
 		if dot == nil {
@@ -85,8 +85,16 @@ func TestShortVectorLoopsAreUnrolled(t *testing.T) {
 		}
 		got := source(t, fset, dot.Body)
 		if dim > unrollLimit {
-			if !hasRange(dot.Body) {
-				t.Errorf("dim %d, past unrollLimit %d: dot is unrolled:\n%s", dim, unrollLimit, got)
+			// Past unrollLimit: a counted loop of unrollBy copies, then
+			// the rest as constants.
+			passes := dim - dim%unrollBy
+			want := fmt.Sprintf("for i := 0; i < %d; i += %d {\n\ts += a[i] * b[i]\n\ts += a[i+1] * b[i+1]\n\ts += a[i+2] * b[i+2]\n\ts += a[i+3] * b[i+3]\n}", passes, unrollBy)
+			for k := passes; k < dim; k++ {
+				want += fmt.Sprintf("\ns += a[%d] * b[%d]", k, k)
+			}
+			words := func(s string) string { return strings.Join(strings.Fields(s), " ") }
+			if hasRange(dot.Body) || !strings.Contains(words(got), words(want)) {
+				t.Errorf("dim %d: dot is not unrolled by %d; want\n%s\ngot\n%s", dim, unrollBy, want, got)
 			}
 			continue
 		}
@@ -189,7 +197,7 @@ func TestUnrollable(t *testing.T) {
 		})
 		key := loop.Key.(*ast.Ident)
 		isIndex := func(id *ast.Ident) bool { return id.Name == key.Name }
-		if got := unrollable(loop.Body, isIndex); got != c.want {
+		if got := unrollable(loop.Body, unrollBodyLimit, isIndex); got != c.want {
 			t.Errorf("unrollable(%q) = %v, want %v", c.body, got, c.want)
 		}
 	}

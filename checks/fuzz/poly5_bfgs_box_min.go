@@ -596,8 +596,14 @@ type poly5BFGSBoxDirection struct {
 
 func (s *poly5BFGSBoxDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][4] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -605,8 +611,14 @@ func (s *poly5BFGSBoxDirection) reset() {
 }
 
 func (s *poly5BFGSBoxDirection) compute(g, d *[5]float64) {
-	for i := range s.h {
-		d[i] = -poly5BFGSBoxDot(&s.h[i], g)
+	{
+		for i := 0; i < 4; i += 4 {
+			d[i] = -poly5BFGSBoxDot(&s.h[i], g)
+			d[i+1] = -poly5BFGSBoxDot(&s.h[i+1], g)
+			d[i+2] = -poly5BFGSBoxDot(&s.h[i+2], g)
+			d[i+3] = -poly5BFGSBoxDot(&s.h[i+3], g)
+		}
+		d[4] = -poly5BFGSBoxDot(&s.h[4], g)
 	}
 }
 
@@ -617,8 +629,14 @@ func (s *poly5BFGSBoxDirection) update(step, change *[5]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly5BFGSBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 4; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[4][4] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,8 +644,14 @@ func (s *poly5BFGSBoxDirection) update(step, change *[5]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [5]float64
-	for i := range s.h {
-		hy[i] = poly5BFGSBoxDot(&s.h[i], change)
+	{
+		for i := 0; i < 4; i += 4 {
+			hy[i] = poly5BFGSBoxDot(&s.h[i], change)
+			hy[i+1] = poly5BFGSBoxDot(&s.h[i+1], change)
+			hy[i+2] = poly5BFGSBoxDot(&s.h[i+2], change)
+			hy[i+3] = poly5BFGSBoxDot(&s.h[i+3], change)
+		}
+		hy[4] = poly5BFGSBoxDot(&s.h[4], change)
 	}
 	outer := (rho*rho*poly5BFGSBoxDot(change, &hy) + rho)
 	for i := range s.h {
@@ -635,8 +659,14 @@ func (s *poly5BFGSBoxDirection) update(step, change *[5]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][4] += a*step[4] - b*hy[4]
 		}
 	}
 }
@@ -653,8 +683,14 @@ func (s *poly5BFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly5BFGSBoxDot returns aᵀb.
 func poly5BFGSBoxDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
@@ -683,8 +719,14 @@ const (
 // poly5BFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly5BFGSBoxEnterBox(x *[5]float64, b *poly5BFGSBoxBox) {
-	for i := range x {
-		x[i] = poly5BFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] = poly5BFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+			x[i+1] = poly5BFGSBoxClampBetween(x[i+1], b.lower[i+1], b.upper[i+1])
+			x[i+2] = poly5BFGSBoxClampBetween(x[i+2], b.lower[i+2], b.upper[i+2])
+			x[i+3] = poly5BFGSBoxClampBetween(x[i+3], b.lower[i+3], b.upper[i+3])
+		}
+		x[4] = poly5BFGSBoxClampBetween(x[4], b.lower[4], b.upper[4])
 	}
 }
 
@@ -729,8 +771,22 @@ func poly5BFGSBoxFinite(v float64) bool {
 
 // poly5BFGSBoxFiniteVec reports whether every component of x is finite.
 func poly5BFGSBoxFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5BFGSBoxFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5BFGSBoxFinite(x[i]) {
+				return false
+			}
+			if !poly5BFGSBoxFinite(x[i+1]) {
+				return false
+			}
+			if !poly5BFGSBoxFinite(x[i+2]) {
+				return false
+			}
+			if !poly5BFGSBoxFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5BFGSBoxFinite(x[4]) {
 			return false
 		}
 	}
@@ -784,15 +840,27 @@ func poly5BFGSBoxConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[5
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5BFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly5BFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly5BFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5BFGSBoxAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5BFGSBoxAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5BFGSBoxAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5BFGSBoxAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5BFGSBoxAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5BFGSBoxAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -800,8 +868,14 @@ func poly5BFGSBoxConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[5
 // poly5BFGSBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly5BFGSBoxGradientError(x *[5]float64, fx float64, g, e *[5]float64, diffs *poly5BFGSBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
 	}
 }
 
@@ -822,8 +896,14 @@ func poly5BFGSBoxAbs(v float64) float64 {
 func poly5BFGSBoxRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5BFGSBoxDifferences) {
 	var h [5]float64
 	poly5BFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5BFGSBoxUnitRoundoff * poly5BFGSBoxAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5BFGSBoxUnitRoundoff * poly5BFGSBoxAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5BFGSBoxUnitRoundoff * poly5BFGSBoxAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5BFGSBoxUnitRoundoff * poly5BFGSBoxAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5BFGSBoxUnitRoundoff * poly5BFGSBoxAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5BFGSBoxUnitRoundoff * poly5BFGSBoxAbs(x[4]) * h[4]
 	}
 }
 
@@ -928,10 +1008,34 @@ func poly5BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5BFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5BFGSBoxLarger(poly5BFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly5BFGSBoxLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i])+e[i])*w)
+				floor = poly5BFGSBoxLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i+1]), 1) / scale
+				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i+1])+e[i+1])*w)
+				floor = poly5BFGSBoxLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i+2]), 1) / scale
+				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i+2])+e[i+2])*w)
+				floor = poly5BFGSBoxLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i+3]), 1) / scale
+				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i+3])+e[i+3])*w)
+				floor = poly5BFGSBoxLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[4]), 1) / scale
+			measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[4])+e[4])*w)
+			floor = poly5BFGSBoxLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +1045,22 @@ func poly5BFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5BFGSBoxStepWithin(s, x *[5]float64, tol float64, diffs *poly5BFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly5BFGSBoxAbs(s[i]) <= tol*poly5BFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5BFGSBoxAbs(s[i]) <= tol*poly5BFGSBoxStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5BFGSBoxAbs(s[i+1]) <= tol*poly5BFGSBoxStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5BFGSBoxAbs(s[i+2]) <= tol*poly5BFGSBoxStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5BFGSBoxAbs(s[i+3]) <= tol*poly5BFGSBoxStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5BFGSBoxAbs(s[4]) <= tol*poly5BFGSBoxStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +1083,23 @@ func poly5BFGSBoxStepScale(xi float64, i int, diffs *poly5BFGSBoxDifferences) fl
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly5BFGSBoxCurvaturePair(s, y, x *[5]float64, b *poly5BFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
+				y[i] = 0
+			}
+			if s[i+1] == 0 && (x[i+1] <= b.lower[i+1] || x[i+1] >= b.upper[i+1]) {
+				y[i+1] = 0
+			}
+			if s[i+2] == 0 && (x[i+2] <= b.lower[i+2] || x[i+2] >= b.upper[i+2]) {
+				y[i+2] = 0
+			}
+			if s[i+3] == 0 && (x[i+3] <= b.lower[i+3] || x[i+3] >= b.upper[i+3]) {
+				y[i+3] = 0
+			}
+		}
+		if s[4] == 0 && (x[4] <= b.lower[4] || x[4] >= b.upper[4]) {
+			y[4] = 0
 		}
 	}
 }
@@ -1003,8 +1135,14 @@ func poly5BFGSBoxLearnCurvature(s, y *[5]float64, diffs *poly5BFGSBoxDifferences
 func poly5BFGSBoxSearchDirection(dir *poly5BFGSBoxDirection, x, g, d *[5]float64, diffs *poly5BFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[i]-poly5BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		for i := 0; i < 4; i += 4 {
+			reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[i]-poly5BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+			reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[i+1]-poly5BFGSBoxClampBetween(x[i+1]-g[i+1], b.lower[i+1], b.upper[i+1])))
+			reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[i+2]-poly5BFGSBoxClampBetween(x[i+2]-g[i+2], b.lower[i+2], b.upper[i+2])))
+			reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[i+3]-poly5BFGSBoxClampBetween(x[i+3]-g[i+3], b.lower[i+3], b.upper[i+3])))
+		}
+		reach = poly5BFGSBoxLarger(reach, poly5BFGSBoxAbs(x[4]-poly5BFGSBoxClampBetween(x[4]-g[4], b.lower[4], b.upper[4])))
 	}
 	var free [5]float64
 	var active [5]bool
@@ -1019,12 +1157,38 @@ func poly5BFGSBoxSearchDirection(dir *poly5BFGSBoxDirection, x, g, d *[5]float64
 		}
 	}
 	poly5BFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			if active[i] {
+				d[i] = -g[i]
+			}
+			if poly5BFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
+				d[i] = 0
+			}
+			if active[i+1] {
+				d[i+1] = -g[i+1]
+			}
+			if poly5BFGSBoxPushedAgainst(x[i+1], -d[i+1], b.lower[i+1], b.upper[i+1]) {
+				d[i+1] = 0
+			}
+			if active[i+2] {
+				d[i+2] = -g[i+2]
+			}
+			if poly5BFGSBoxPushedAgainst(x[i+2], -d[i+2], b.lower[i+2], b.upper[i+2]) {
+				d[i+2] = 0
+			}
+			if active[i+3] {
+				d[i+3] = -g[i+3]
+			}
+			if poly5BFGSBoxPushedAgainst(x[i+3], -d[i+3], b.lower[i+3], b.upper[i+3]) {
+				d[i+3] = 0
+			}
 		}
-		if poly5BFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if active[4] {
+			d[4] = -g[4]
+		}
+		if poly5BFGSBoxPushedAgainst(x[4], -d[4], b.lower[4], b.upper[4]) {
+			d[4] = 0
 		}
 	}
 }
@@ -1058,9 +1222,31 @@ func (f *poly5BFGSBoxStepFloor) at(x, d *[5]float64, diffs *poly5BFGSBoxDifferen
 // step test, min over i of tol·poly5BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5BFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5BFGSBoxStepScale(x[i], i, diffs) / poly5BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5BFGSBoxStepScale(x[i], i, diffs) / poly5BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5BFGSBoxStepScale(x[i+1], i+1, diffs) / poly5BFGSBoxAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5BFGSBoxStepScale(x[i+2], i+2, diffs) / poly5BFGSBoxAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5BFGSBoxStepScale(x[i+3], i+3, diffs) / poly5BFGSBoxAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5BFGSBoxStepScale(x[4], 4, diffs) / poly5BFGSBoxAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1394,22 @@ func poly5BFGSBoxShrinkDirection(d, g *[5]float64) {
 // poly5BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5BFGSBoxMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5BFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5BFGSBoxAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5BFGSBoxAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5BFGSBoxAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5BFGSBoxAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5BFGSBoxAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1418,14 @@ func poly5BFGSBoxMaxAbs(x *[5]float64) float64 {
 
 // poly5BFGSBoxScaleBy sets x = c·x.
 func poly5BFGSBoxScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1284,8 +1490,22 @@ func (r *poly5BFGSBoxRiseTrend) contradicts() bool {
 // poly5BFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5BFGSBoxFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5BFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly5BFGSBoxAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5BFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly5BFGSBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5BFGSBoxAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5BFGSBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5BFGSBoxAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5BFGSBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5BFGSBoxAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5BFGSBoxAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5BFGSBoxAbs(xt[4]-x[4]-want) <= 0.01*poly5BFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1436,8 +1656,14 @@ func poly5BFGSBoxExpandTrial(previous, current *poly5BFGSBoxLinePoint) float64 {
 
 // poly5BFGSBoxGradientChange sets out = a − b.
 func poly5BFGSBoxGradientChange(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

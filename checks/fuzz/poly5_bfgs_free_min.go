@@ -586,8 +586,14 @@ type poly5BFGSFreeDirection struct {
 
 func (s *poly5BFGSFreeDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][4] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +601,14 @@ func (s *poly5BFGSFreeDirection) reset() {
 }
 
 func (s *poly5BFGSFreeDirection) compute(g, d *[5]float64) {
-	for i := range s.h {
-		d[i] = -poly5BFGSFreeDot(&s.h[i], g)
+	{
+		for i := 0; i < 4; i += 4 {
+			d[i] = -poly5BFGSFreeDot(&s.h[i], g)
+			d[i+1] = -poly5BFGSFreeDot(&s.h[i+1], g)
+			d[i+2] = -poly5BFGSFreeDot(&s.h[i+2], g)
+			d[i+3] = -poly5BFGSFreeDot(&s.h[i+3], g)
+		}
+		d[4] = -poly5BFGSFreeDot(&s.h[4], g)
 	}
 }
 
@@ -607,8 +619,14 @@ func (s *poly5BFGSFreeDirection) update(step, change *[5]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly5BFGSFreeDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 4; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[4][4] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +634,14 @@ func (s *poly5BFGSFreeDirection) update(step, change *[5]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [5]float64
-	for i := range s.h {
-		hy[i] = poly5BFGSFreeDot(&s.h[i], change)
+	{
+		for i := 0; i < 4; i += 4 {
+			hy[i] = poly5BFGSFreeDot(&s.h[i], change)
+			hy[i+1] = poly5BFGSFreeDot(&s.h[i+1], change)
+			hy[i+2] = poly5BFGSFreeDot(&s.h[i+2], change)
+			hy[i+3] = poly5BFGSFreeDot(&s.h[i+3], change)
+		}
+		hy[4] = poly5BFGSFreeDot(&s.h[4], change)
 	}
 	outer := (rho*rho*poly5BFGSFreeDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +649,14 @@ func (s *poly5BFGSFreeDirection) update(step, change *[5]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][4] += a*step[4] - b*hy[4]
 		}
 	}
 }
@@ -643,8 +673,14 @@ func (s *poly5BFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly5BFGSFreeDot returns aᵀb.
 func poly5BFGSFreeDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
@@ -699,8 +735,22 @@ func poly5BFGSFreeFinite(v float64) bool {
 
 // poly5BFGSFreeFiniteVec reports whether every component of x is finite.
 func poly5BFGSFreeFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5BFGSFreeFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5BFGSFreeFinite(x[i]) {
+				return false
+			}
+			if !poly5BFGSFreeFinite(x[i+1]) {
+				return false
+			}
+			if !poly5BFGSFreeFinite(x[i+2]) {
+				return false
+			}
+			if !poly5BFGSFreeFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5BFGSFreeFinite(x[4]) {
 			return false
 		}
 	}
@@ -754,15 +804,27 @@ func poly5BFGSFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5BFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly5BFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly5BFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5BFGSFreeAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5BFGSFreeAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5BFGSFreeAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5BFGSFreeAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5BFGSFreeAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5BFGSFreeAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -770,8 +832,14 @@ func poly5BFGSFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[
 // poly5BFGSFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly5BFGSFreeGradientError(x *[5]float64, fx float64, g, e *[5]float64, diffs *poly5BFGSFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
 	}
 }
 
@@ -792,8 +860,14 @@ func poly5BFGSFreeAbs(v float64) float64 {
 func poly5BFGSFreeRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5BFGSFreeDifferences) {
 	var h [5]float64
 	poly5BFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5BFGSFreeUnitRoundoff * poly5BFGSFreeAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5BFGSFreeUnitRoundoff * poly5BFGSFreeAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5BFGSFreeUnitRoundoff * poly5BFGSFreeAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5BFGSFreeUnitRoundoff * poly5BFGSFreeAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5BFGSFreeUnitRoundoff * poly5BFGSFreeAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5BFGSFreeUnitRoundoff * poly5BFGSFreeAbs(x[4]) * h[4]
 	}
 }
 
@@ -895,10 +969,34 @@ func poly5BFGSFreeStationarity(g, e, x *[5]float64, fx float64, b *poly5BFGSFree
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5BFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5BFGSFreeLarger(poly5BFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly5BFGSFreeLarger(poly5BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5BFGSFreeLarger(measure, (poly5BFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly5BFGSFreeLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5BFGSFreeLarger(poly5BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5BFGSFreeLarger(measure, (poly5BFGSFreeAbs(g[i])+e[i])*w)
+				floor = poly5BFGSFreeLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5BFGSFreeLarger(poly5BFGSFreeAbs(x[i+1]), 1) / scale
+				measure = poly5BFGSFreeLarger(measure, (poly5BFGSFreeAbs(g[i+1])+e[i+1])*w)
+				floor = poly5BFGSFreeLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5BFGSFreeLarger(poly5BFGSFreeAbs(x[i+2]), 1) / scale
+				measure = poly5BFGSFreeLarger(measure, (poly5BFGSFreeAbs(g[i+2])+e[i+2])*w)
+				floor = poly5BFGSFreeLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5BFGSFreeLarger(poly5BFGSFreeAbs(x[i+3]), 1) / scale
+				measure = poly5BFGSFreeLarger(measure, (poly5BFGSFreeAbs(g[i+3])+e[i+3])*w)
+				floor = poly5BFGSFreeLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5BFGSFreeLarger(poly5BFGSFreeAbs(x[4]), 1) / scale
+			measure = poly5BFGSFreeLarger(measure, (poly5BFGSFreeAbs(g[4])+e[4])*w)
+			floor = poly5BFGSFreeLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +1006,22 @@ func poly5BFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5BFGSFreeStepWithin(s, x *[5]float64, tol float64, diffs *poly5BFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly5BFGSFreeAbs(s[i]) <= tol*poly5BFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5BFGSFreeAbs(s[i]) <= tol*poly5BFGSFreeStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5BFGSFreeAbs(s[i+1]) <= tol*poly5BFGSFreeStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5BFGSFreeAbs(s[i+2]) <= tol*poly5BFGSFreeStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5BFGSFreeAbs(s[i+3]) <= tol*poly5BFGSFreeStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5BFGSFreeAbs(s[4]) <= tol*poly5BFGSFreeStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1073,31 @@ func (f *poly5BFGSFreeStepFloor) at(x, d *[5]float64, diffs *poly5BFGSFreeDiffer
 // step test, min over i of tol·poly5BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5BFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5BFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5BFGSFreeStepScale(x[i], i, diffs) / poly5BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5BFGSFreeStepScale(x[i], i, diffs) / poly5BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5BFGSFreeStepScale(x[i+1], i+1, diffs) / poly5BFGSFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5BFGSFreeStepScale(x[i+2], i+2, diffs) / poly5BFGSFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5BFGSFreeStepScale(x[i+3], i+3, diffs) / poly5BFGSFreeAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5BFGSFreeStepScale(x[4], 4, diffs) / poly5BFGSFreeAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1245,22 @@ func poly5BFGSFreeShrinkDirection(d, g *[5]float64) {
 // poly5BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5BFGSFreeMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5BFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5BFGSFreeAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5BFGSFreeAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5BFGSFreeAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5BFGSFreeAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5BFGSFreeAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1269,14 @@ func poly5BFGSFreeMaxAbs(x *[5]float64) float64 {
 
 // poly5BFGSFreeScaleBy sets x = c·x.
 func poly5BFGSFreeScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1187,8 +1341,22 @@ func (r *poly5BFGSFreeRiseTrend) contradicts() bool {
 // poly5BFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5BFGSFreeFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5BFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5BFGSFreeAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5BFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5BFGSFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5BFGSFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5BFGSFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5BFGSFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5BFGSFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5BFGSFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5BFGSFreeAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5BFGSFreeAbs(xt[4]-x[4]-want) <= 0.01*poly5BFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1405,14 @@ func poly5BFGSFreeTrialPoint(out, x *[5]float64, t float64, d *[5]float64, b *po
 
 // poly5BFGSFreeMoveTo sets out = x + t·d.
 func poly5BFGSFreeMoveTo(out, x *[5]float64, t float64, d *[5]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
 	}
 }
 
@@ -1304,8 +1478,14 @@ func poly5BFGSFreeExpandTrial(previous, current *poly5BFGSFreeLinePoint) float64
 
 // poly5BFGSFreeGradientChange sets out = a − b.
 func poly5BFGSFreeGradientChange(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

@@ -618,8 +618,14 @@ type poly5CGFreeDirection struct {
 func (s *poly5CGFreeDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 4; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[4] = 1
 	}
 }
 
@@ -627,16 +633,28 @@ func (s *poly5CGFreeDirection) compute(g, d *[5]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 4; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[4] /= s.curvature[4]
 		}
 	}
 	gz, zy := poly5CGFreeDot(g, &z), poly5CGFreeDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && poly5CGFreeAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = poly5CGFreeLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 4; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[4] = -z[4] + beta*s.previous[4]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +684,14 @@ func (s *poly5CGFreeDirection) update(step, change *[5]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 4; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[4] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +726,14 @@ func (s *poly5CGFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly5CGFreeDot returns aᵀb.
 func poly5CGFreeDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
@@ -782,8 +812,22 @@ func poly5CGFreeValue(recv *Poly, x, g *[5]float64, diffs *poly5CGFreeDifference
 
 // poly5CGFreeFiniteVec reports whether every component of x is finite.
 func poly5CGFreeFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5CGFreeFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5CGFreeFinite(x[i]) {
+				return false
+			}
+			if !poly5CGFreeFinite(x[i+1]) {
+				return false
+			}
+			if !poly5CGFreeFinite(x[i+2]) {
+				return false
+			}
+			if !poly5CGFreeFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5CGFreeFinite(x[4]) {
 			return false
 		}
 	}
@@ -837,15 +881,27 @@ func poly5CGFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[5]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5CGFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly5CGFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly5CGFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5CGFreeAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5CGFreeAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5CGFreeAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5CGFreeAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5CGFreeAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5CGFreeAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -853,8 +909,14 @@ func poly5CGFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[5]
 // poly5CGFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly5CGFreeGradientError(x *[5]float64, fx float64, g, e *[5]float64, diffs *poly5CGFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
 	}
 }
 
@@ -867,8 +929,14 @@ func poly5CGFreeGradientError(x *[5]float64, fx float64, g, e *[5]float64, diffs
 func poly5CGFreeRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5CGFreeDifferences) {
 	var h [5]float64
 	poly5CGFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5CGFreeUnitRoundoff * poly5CGFreeAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5CGFreeUnitRoundoff * poly5CGFreeAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5CGFreeUnitRoundoff * poly5CGFreeAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5CGFreeUnitRoundoff * poly5CGFreeAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5CGFreeUnitRoundoff * poly5CGFreeAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5CGFreeUnitRoundoff * poly5CGFreeAbs(x[4]) * h[4]
 	}
 }
 
@@ -960,10 +1028,34 @@ func poly5CGFreeStationarity(g, e, x *[5]float64, fx float64, b *poly5CGFreeBox)
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5CGFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5CGFreeLarger(poly5CGFreeAbs(fx), 1)
-	for i := range g {
-		w := poly5CGFreeLarger(poly5CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i])+e[i])*w)
-		floor = poly5CGFreeLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i])+e[i])*w)
+				floor = poly5CGFreeLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i+1]), 1) / scale
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i+1])+e[i+1])*w)
+				floor = poly5CGFreeLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i+2]), 1) / scale
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i+2])+e[i+2])*w)
+				floor = poly5CGFreeLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i+3]), 1) / scale
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i+3])+e[i+3])*w)
+				floor = poly5CGFreeLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5CGFreeLarger(poly5CGFreeAbs(x[4]), 1) / scale
+			measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[4])+e[4])*w)
+			floor = poly5CGFreeLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -973,8 +1065,22 @@ func poly5CGFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5CGFreeStepWithin(s, x *[5]float64, tol float64, diffs *poly5CGFreeDifferences) bool {
-	for i := range s {
-		if !(poly5CGFreeAbs(s[i]) <= tol*poly5CGFreeStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5CGFreeAbs(s[i]) <= tol*poly5CGFreeStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5CGFreeAbs(s[i+1]) <= tol*poly5CGFreeStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5CGFreeAbs(s[i+2]) <= tol*poly5CGFreeStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5CGFreeAbs(s[i+3]) <= tol*poly5CGFreeStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5CGFreeAbs(s[4]) <= tol*poly5CGFreeStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1132,31 @@ func (f *poly5CGFreeStepFloor) at(x, d *[5]float64, diffs *poly5CGFreeDifference
 // step test, min over i of tol·poly5CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5CGFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5CGFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5CGFreeStepScale(x[i], i, diffs) / poly5CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5CGFreeStepScale(x[i], i, diffs) / poly5CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5CGFreeStepScale(x[i+1], i+1, diffs) / poly5CGFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5CGFreeStepScale(x[i+2], i+2, diffs) / poly5CGFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5CGFreeStepScale(x[i+3], i+3, diffs) / poly5CGFreeAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5CGFreeStepScale(x[4], 4, diffs) / poly5CGFreeAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1304,22 @@ func poly5CGFreeShrinkDirection(d, g *[5]float64) {
 // poly5CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5CGFreeMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5CGFreeAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5CGFreeAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5CGFreeAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5CGFreeAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5CGFreeAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5CGFreeAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1328,14 @@ func poly5CGFreeMaxAbs(x *[5]float64) float64 {
 
 // poly5CGFreeScaleBy sets x = c·x.
 func poly5CGFreeScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1252,8 +1400,22 @@ func (r *poly5CGFreeRiseTrend) contradicts() bool {
 // poly5CGFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5CGFreeFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5CGFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5CGFreeAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5CGFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5CGFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5CGFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5CGFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5CGFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5CGFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5CGFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5CGFreeAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5CGFreeAbs(xt[4]-x[4]-want) <= 0.01*poly5CGFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1464,14 @@ func poly5CGFreeTrialPoint(out, x *[5]float64, t float64, d *[5]float64, b *poly
 
 // poly5CGFreeMoveTo sets out = x + t·d.
 func poly5CGFreeMoveTo(out, x *[5]float64, t float64, d *[5]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
 	}
 }
 
@@ -1369,8 +1537,14 @@ func poly5CGFreeExpandTrial(previous, current *poly5CGFreeLinePoint) float64 {
 
 // poly5CGFreeGradientChange sets out = a − b.
 func poly5CGFreeGradientChange(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

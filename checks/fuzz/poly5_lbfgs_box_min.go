@@ -612,8 +612,14 @@ func (s *poly5LBFGSBoxDirection) compute(g, d *[5]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*poly5LBFGSBoxDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[4] -= a * y[4]
 		}
 		k--
 		if k < 0 {
@@ -621,8 +627,14 @@ func (s *poly5LBFGSBoxDirection) compute(g, d *[5]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[4] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -633,8 +645,14 @@ func (s *poly5LBFGSBoxDirection) compute(g, d *[5]float64) {
 		}
 		beta := s.rho[k] * poly5LBFGSBoxDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[4] += step[4] * c
 		}
 	}
 	poly5LBFGSBoxNegate(d, &q)
@@ -671,16 +689,28 @@ func (s *poly5LBFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly5LBFGSBoxDot returns aᵀb.
 func poly5LBFGSBoxDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
 
 // poly5LBFGSBoxNegate sets out = −x.
 func poly5LBFGSBoxNegate(out, x *[5]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
 	}
 }
 
@@ -702,8 +732,14 @@ const (
 // poly5LBFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly5LBFGSBoxEnterBox(x *[5]float64, b *poly5LBFGSBoxBox) {
-	for i := range x {
-		x[i] = poly5LBFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] = poly5LBFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+			x[i+1] = poly5LBFGSBoxClampBetween(x[i+1], b.lower[i+1], b.upper[i+1])
+			x[i+2] = poly5LBFGSBoxClampBetween(x[i+2], b.lower[i+2], b.upper[i+2])
+			x[i+3] = poly5LBFGSBoxClampBetween(x[i+3], b.lower[i+3], b.upper[i+3])
+		}
+		x[4] = poly5LBFGSBoxClampBetween(x[4], b.lower[4], b.upper[4])
 	}
 }
 
@@ -748,8 +784,22 @@ func poly5LBFGSBoxFinite(v float64) bool {
 
 // poly5LBFGSBoxFiniteVec reports whether every component of x is finite.
 func poly5LBFGSBoxFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5LBFGSBoxFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5LBFGSBoxFinite(x[i]) {
+				return false
+			}
+			if !poly5LBFGSBoxFinite(x[i+1]) {
+				return false
+			}
+			if !poly5LBFGSBoxFinite(x[i+2]) {
+				return false
+			}
+			if !poly5LBFGSBoxFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5LBFGSBoxFinite(x[4]) {
 			return false
 		}
 	}
@@ -909,8 +959,14 @@ func poly5LBFGSBoxMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly5LBFGSBoxNoiseLevel(x *[5]float64, fx float64, g *[5]float64) float64 {
 	sum := poly5LBFGSBoxAbs(fx)
-	for i := range x {
-		sum += poly5LBFGSBoxAbs(g[i] * x[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			sum += poly5LBFGSBoxAbs(g[i] * x[i])
+			sum += poly5LBFGSBoxAbs(g[i+1] * x[i+1])
+			sum += poly5LBFGSBoxAbs(g[i+2] * x[i+2])
+			sum += poly5LBFGSBoxAbs(g[i+3] * x[i+3])
+		}
+		sum += poly5LBFGSBoxAbs(g[4] * x[4])
 	}
 	return 4 * poly5LBFGSBoxUnitRoundoff * sum
 }
@@ -1037,15 +1093,27 @@ func poly5LBFGSBoxConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5LBFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly5LBFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly5LBFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5LBFGSBoxAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5LBFGSBoxAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5LBFGSBoxAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5LBFGSBoxAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5LBFGSBoxAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5LBFGSBoxAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -1079,8 +1147,14 @@ func poly5LBFGSBoxGradientError(x *[5]float64, fx float64, g, e *[5]float64, dif
 func poly5LBFGSBoxRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5LBFGSBoxDifferences) {
 	var h [5]float64
 	poly5LBFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5LBFGSBoxUnitRoundoff * poly5LBFGSBoxAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5LBFGSBoxUnitRoundoff * poly5LBFGSBoxAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5LBFGSBoxUnitRoundoff * poly5LBFGSBoxAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5LBFGSBoxUnitRoundoff * poly5LBFGSBoxAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5LBFGSBoxUnitRoundoff * poly5LBFGSBoxAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5LBFGSBoxUnitRoundoff * poly5LBFGSBoxAbs(x[4]) * h[4]
 	}
 }
 
@@ -1126,10 +1200,34 @@ func poly5LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5LBFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5LBFGSBoxLarger(measure, (poly5LBFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly5LBFGSBoxLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5LBFGSBoxLarger(measure, (poly5LBFGSBoxAbs(g[i])+e[i])*w)
+				floor = poly5LBFGSBoxLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(x[i+1]), 1) / scale
+				measure = poly5LBFGSBoxLarger(measure, (poly5LBFGSBoxAbs(g[i+1])+e[i+1])*w)
+				floor = poly5LBFGSBoxLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(x[i+2]), 1) / scale
+				measure = poly5LBFGSBoxLarger(measure, (poly5LBFGSBoxAbs(g[i+2])+e[i+2])*w)
+				floor = poly5LBFGSBoxLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(x[i+3]), 1) / scale
+				measure = poly5LBFGSBoxLarger(measure, (poly5LBFGSBoxAbs(g[i+3])+e[i+3])*w)
+				floor = poly5LBFGSBoxLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5LBFGSBoxLarger(poly5LBFGSBoxAbs(x[4]), 1) / scale
+			measure = poly5LBFGSBoxLarger(measure, (poly5LBFGSBoxAbs(g[4])+e[4])*w)
+			floor = poly5LBFGSBoxLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1139,8 +1237,22 @@ func poly5LBFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5LBFGSBoxStepWithin(s, x *[5]float64, tol float64, diffs *poly5LBFGSBoxDifferences) bool {
-	for i := range s {
-		if !(poly5LBFGSBoxAbs(s[i]) <= tol*poly5LBFGSBoxStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5LBFGSBoxAbs(s[i]) <= tol*poly5LBFGSBoxStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5LBFGSBoxAbs(s[i+1]) <= tol*poly5LBFGSBoxStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5LBFGSBoxAbs(s[i+2]) <= tol*poly5LBFGSBoxStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5LBFGSBoxAbs(s[i+3]) <= tol*poly5LBFGSBoxStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5LBFGSBoxAbs(s[4]) <= tol*poly5LBFGSBoxStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -1163,9 +1275,23 @@ func poly5LBFGSBoxStepScale(xi float64, i int, diffs *poly5LBFGSBoxDifferences) 
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly5LBFGSBoxCurvaturePair(s, y, x *[5]float64, b *poly5LBFGSBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
+				y[i] = 0
+			}
+			if s[i+1] == 0 && (x[i+1] <= b.lower[i+1] || x[i+1] >= b.upper[i+1]) {
+				y[i+1] = 0
+			}
+			if s[i+2] == 0 && (x[i+2] <= b.lower[i+2] || x[i+2] >= b.upper[i+2]) {
+				y[i+2] = 0
+			}
+			if s[i+3] == 0 && (x[i+3] <= b.lower[i+3] || x[i+3] >= b.upper[i+3]) {
+				y[i+3] = 0
+			}
+		}
+		if s[4] == 0 && (x[4] <= b.lower[4] || x[4] >= b.upper[4]) {
+			y[4] = 0
 		}
 	}
 }
@@ -1201,8 +1327,14 @@ func poly5LBFGSBoxLearnCurvature(s, y *[5]float64, diffs *poly5LBFGSBoxDifferenc
 func poly5LBFGSBoxSearchDirection(dir *poly5LBFGSBoxDirection, x, g, d *[5]float64, diffs *poly5LBFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[i]-poly5LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		for i := 0; i < 4; i += 4 {
+			reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[i]-poly5LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+			reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[i+1]-poly5LBFGSBoxClampBetween(x[i+1]-g[i+1], b.lower[i+1], b.upper[i+1])))
+			reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[i+2]-poly5LBFGSBoxClampBetween(x[i+2]-g[i+2], b.lower[i+2], b.upper[i+2])))
+			reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[i+3]-poly5LBFGSBoxClampBetween(x[i+3]-g[i+3], b.lower[i+3], b.upper[i+3])))
+		}
+		reach = poly5LBFGSBoxLarger(reach, poly5LBFGSBoxAbs(x[4]-poly5LBFGSBoxClampBetween(x[4]-g[4], b.lower[4], b.upper[4])))
 	}
 	var free [5]float64
 	var active [5]bool
@@ -1217,12 +1349,38 @@ func poly5LBFGSBoxSearchDirection(dir *poly5LBFGSBoxDirection, x, g, d *[5]float
 		}
 	}
 	poly5LBFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			if active[i] {
+				d[i] = -g[i]
+			}
+			if poly5LBFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
+				d[i] = 0
+			}
+			if active[i+1] {
+				d[i+1] = -g[i+1]
+			}
+			if poly5LBFGSBoxPushedAgainst(x[i+1], -d[i+1], b.lower[i+1], b.upper[i+1]) {
+				d[i+1] = 0
+			}
+			if active[i+2] {
+				d[i+2] = -g[i+2]
+			}
+			if poly5LBFGSBoxPushedAgainst(x[i+2], -d[i+2], b.lower[i+2], b.upper[i+2]) {
+				d[i+2] = 0
+			}
+			if active[i+3] {
+				d[i+3] = -g[i+3]
+			}
+			if poly5LBFGSBoxPushedAgainst(x[i+3], -d[i+3], b.lower[i+3], b.upper[i+3]) {
+				d[i+3] = 0
+			}
 		}
-		if poly5LBFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if active[4] {
+			d[4] = -g[4]
+		}
+		if poly5LBFGSBoxPushedAgainst(x[4], -d[4], b.lower[4], b.upper[4]) {
+			d[4] = 0
 		}
 	}
 }
@@ -1256,9 +1414,31 @@ func (f *poly5LBFGSBoxStepFloor) at(x, d *[5]float64, diffs *poly5LBFGSBoxDiffer
 // step test, min over i of tol·poly5LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5LBFGSBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5LBFGSBoxStepScale(x[i], i, diffs) / poly5LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5LBFGSBoxStepScale(x[i], i, diffs) / poly5LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5LBFGSBoxStepScale(x[i+1], i+1, diffs) / poly5LBFGSBoxAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5LBFGSBoxStepScale(x[i+2], i+2, diffs) / poly5LBFGSBoxAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5LBFGSBoxStepScale(x[i+3], i+3, diffs) / poly5LBFGSBoxAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5LBFGSBoxStepScale(x[4], 4, diffs) / poly5LBFGSBoxAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1406,8 +1586,22 @@ func poly5LBFGSBoxShrinkDirection(d, g *[5]float64) {
 // poly5LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5LBFGSBoxMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5LBFGSBoxAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5LBFGSBoxAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5LBFGSBoxAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5LBFGSBoxAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5LBFGSBoxAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5LBFGSBoxAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1416,8 +1610,14 @@ func poly5LBFGSBoxMaxAbs(x *[5]float64) float64 {
 
 // poly5LBFGSBoxScaleBy sets x = c·x.
 func poly5LBFGSBoxScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1482,8 +1682,22 @@ func (r *poly5LBFGSBoxRiseTrend) contradicts() bool {
 // poly5LBFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5LBFGSBoxFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5LBFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly5LBFGSBoxAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5LBFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly5LBFGSBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5LBFGSBoxAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5LBFGSBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5LBFGSBoxAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5LBFGSBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5LBFGSBoxAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5LBFGSBoxAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5LBFGSBoxAbs(xt[4]-x[4]-want) <= 0.01*poly5LBFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1634,8 +1848,14 @@ func poly5LBFGSBoxExpandTrial(previous, current *poly5LBFGSBoxLinePoint) float64
 
 // poly5LBFGSBoxGradientChange sets out = a − b.
 func poly5LBFGSBoxGradientChange(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

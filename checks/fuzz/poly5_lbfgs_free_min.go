@@ -602,8 +602,14 @@ func (s *poly5LBFGSFreeDirection) compute(g, d *[5]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*poly5LBFGSFreeDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[4] -= a * y[4]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +617,14 @@ func (s *poly5LBFGSFreeDirection) compute(g, d *[5]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[4] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +635,14 @@ func (s *poly5LBFGSFreeDirection) compute(g, d *[5]float64) {
 		}
 		beta := s.rho[k] * poly5LBFGSFreeDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[4] += step[4] * c
 		}
 	}
 	poly5LBFGSFreeNegate(d, &q)
@@ -661,16 +679,28 @@ func (s *poly5LBFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly5LBFGSFreeDot returns aᵀb.
 func poly5LBFGSFreeDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
 
 // poly5LBFGSFreeNegate sets out = −x.
 func poly5LBFGSFreeNegate(out, x *[5]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
 	}
 }
 
@@ -718,8 +748,22 @@ func poly5LBFGSFreeFinite(v float64) bool {
 
 // poly5LBFGSFreeFiniteVec reports whether every component of x is finite.
 func poly5LBFGSFreeFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5LBFGSFreeFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5LBFGSFreeFinite(x[i]) {
+				return false
+			}
+			if !poly5LBFGSFreeFinite(x[i+1]) {
+				return false
+			}
+			if !poly5LBFGSFreeFinite(x[i+2]) {
+				return false
+			}
+			if !poly5LBFGSFreeFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5LBFGSFreeFinite(x[4]) {
 			return false
 		}
 	}
@@ -894,8 +938,14 @@ func poly5LBFGSFreeMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly5LBFGSFreeNoiseLevel(x *[5]float64, fx float64, g *[5]float64) float64 {
 	sum := poly5LBFGSFreeAbs(fx)
-	for i := range x {
-		sum += poly5LBFGSFreeAbs(g[i] * x[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			sum += poly5LBFGSFreeAbs(g[i] * x[i])
+			sum += poly5LBFGSFreeAbs(g[i+1] * x[i+1])
+			sum += poly5LBFGSFreeAbs(g[i+2] * x[i+2])
+			sum += poly5LBFGSFreeAbs(g[i+3] * x[i+3])
+		}
+		sum += poly5LBFGSFreeAbs(g[4] * x[4])
 	}
 	return 4 * poly5LBFGSFreeUnitRoundoff * sum
 }
@@ -1022,15 +1072,27 @@ func poly5LBFGSFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5LBFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly5LBFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly5LBFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5LBFGSFreeAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5LBFGSFreeAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5LBFGSFreeAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5LBFGSFreeAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5LBFGSFreeAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5LBFGSFreeAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -1064,8 +1126,14 @@ func poly5LBFGSFreeGradientError(x *[5]float64, fx float64, g, e *[5]float64, di
 func poly5LBFGSFreeRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5LBFGSFreeDifferences) {
 	var h [5]float64
 	poly5LBFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5LBFGSFreeUnitRoundoff * poly5LBFGSFreeAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5LBFGSFreeUnitRoundoff * poly5LBFGSFreeAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5LBFGSFreeUnitRoundoff * poly5LBFGSFreeAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5LBFGSFreeUnitRoundoff * poly5LBFGSFreeAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5LBFGSFreeUnitRoundoff * poly5LBFGSFreeAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5LBFGSFreeUnitRoundoff * poly5LBFGSFreeAbs(x[4]) * h[4]
 	}
 }
 
@@ -1093,10 +1161,34 @@ func poly5LBFGSFreeStationarity(g, e, x *[5]float64, fx float64, b *poly5LBFGSFr
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5LBFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly5LBFGSFreeLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i])+e[i])*w)
+				floor = poly5LBFGSFreeLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i+1]), 1) / scale
+				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i+1])+e[i+1])*w)
+				floor = poly5LBFGSFreeLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i+2]), 1) / scale
+				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i+2])+e[i+2])*w)
+				floor = poly5LBFGSFreeLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i+3]), 1) / scale
+				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i+3])+e[i+3])*w)
+				floor = poly5LBFGSFreeLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[4]), 1) / scale
+			measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[4])+e[4])*w)
+			floor = poly5LBFGSFreeLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1106,8 +1198,22 @@ func poly5LBFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5LBFGSFreeStepWithin(s, x *[5]float64, tol float64, diffs *poly5LBFGSFreeDifferences) bool {
-	for i := range s {
-		if !(poly5LBFGSFreeAbs(s[i]) <= tol*poly5LBFGSFreeStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5LBFGSFreeAbs(s[i]) <= tol*poly5LBFGSFreeStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5LBFGSFreeAbs(s[i+1]) <= tol*poly5LBFGSFreeStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5LBFGSFreeAbs(s[i+2]) <= tol*poly5LBFGSFreeStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5LBFGSFreeAbs(s[i+3]) <= tol*poly5LBFGSFreeStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5LBFGSFreeAbs(s[4]) <= tol*poly5LBFGSFreeStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -1159,9 +1265,31 @@ func (f *poly5LBFGSFreeStepFloor) at(x, d *[5]float64, diffs *poly5LBFGSFreeDiff
 // step test, min over i of tol·poly5LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5LBFGSFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5LBFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5LBFGSFreeStepScale(x[i], i, diffs) / poly5LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5LBFGSFreeStepScale(x[i], i, diffs) / poly5LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5LBFGSFreeStepScale(x[i+1], i+1, diffs) / poly5LBFGSFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5LBFGSFreeStepScale(x[i+2], i+2, diffs) / poly5LBFGSFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5LBFGSFreeStepScale(x[i+3], i+3, diffs) / poly5LBFGSFreeAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5LBFGSFreeStepScale(x[4], 4, diffs) / poly5LBFGSFreeAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1309,8 +1437,22 @@ func poly5LBFGSFreeShrinkDirection(d, g *[5]float64) {
 // poly5LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5LBFGSFreeMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5LBFGSFreeAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5LBFGSFreeAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5LBFGSFreeAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5LBFGSFreeAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5LBFGSFreeAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5LBFGSFreeAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1319,8 +1461,14 @@ func poly5LBFGSFreeMaxAbs(x *[5]float64) float64 {
 
 // poly5LBFGSFreeScaleBy sets x = c·x.
 func poly5LBFGSFreeScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1385,8 +1533,22 @@ func (r *poly5LBFGSFreeRiseTrend) contradicts() bool {
 // poly5LBFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5LBFGSFreeFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5LBFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5LBFGSFreeAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5LBFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5LBFGSFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5LBFGSFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5LBFGSFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5LBFGSFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5LBFGSFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5LBFGSFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5LBFGSFreeAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5LBFGSFreeAbs(xt[4]-x[4]-want) <= 0.01*poly5LBFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1435,8 +1597,14 @@ func poly5LBFGSFreeTrialPoint(out, x *[5]float64, t float64, d *[5]float64, b *p
 
 // poly5LBFGSFreeMoveTo sets out = x + t·d.
 func poly5LBFGSFreeMoveTo(out, x *[5]float64, t float64, d *[5]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
 	}
 }
 
@@ -1502,8 +1670,14 @@ func poly5LBFGSFreeExpandTrial(previous, current *poly5LBFGSFreeLinePoint) float
 
 // poly5LBFGSFreeGradientChange sets out = a − b.
 func poly5LBFGSFreeGradientChange(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

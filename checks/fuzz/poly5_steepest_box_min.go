@@ -610,8 +610,14 @@ func (s *poly5SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly5SteepestBoxNegate sets out = −x.
 func poly5SteepestBoxNegate(out, x *[5]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
 	}
 }
 
@@ -656,8 +662,14 @@ const (
 // poly5SteepestBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly5SteepestBoxEnterBox(x *[5]float64, b *poly5SteepestBoxBox) {
-	for i := range x {
-		x[i] = poly5SteepestBoxClampBetween(x[i], b.lower[i], b.upper[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] = poly5SteepestBoxClampBetween(x[i], b.lower[i], b.upper[i])
+			x[i+1] = poly5SteepestBoxClampBetween(x[i+1], b.lower[i+1], b.upper[i+1])
+			x[i+2] = poly5SteepestBoxClampBetween(x[i+2], b.lower[i+2], b.upper[i+2])
+			x[i+3] = poly5SteepestBoxClampBetween(x[i+3], b.lower[i+3], b.upper[i+3])
+		}
+		x[4] = poly5SteepestBoxClampBetween(x[4], b.lower[4], b.upper[4])
 	}
 }
 
@@ -690,8 +702,22 @@ func poly5SteepestBoxValue(recv *Poly, x, g *[5]float64, diffs *poly5SteepestBox
 
 // poly5SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly5SteepestBoxFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5SteepestBoxFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5SteepestBoxFinite(x[i]) {
+				return false
+			}
+			if !poly5SteepestBoxFinite(x[i+1]) {
+				return false
+			}
+			if !poly5SteepestBoxFinite(x[i+2]) {
+				return false
+			}
+			if !poly5SteepestBoxFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5SteepestBoxFinite(x[4]) {
 			return false
 		}
 	}
@@ -745,15 +771,27 @@ func poly5SteepestBoxConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5SteepestBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly5SteepestBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly5SteepestBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5SteepestBoxAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5SteepestBoxAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5SteepestBoxAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5SteepestBoxAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5SteepestBoxAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5SteepestBoxAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -761,8 +799,14 @@ func poly5SteepestBoxConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, e
 // poly5SteepestBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly5SteepestBoxGradientError(x *[5]float64, fx float64, g, e *[5]float64, diffs *poly5SteepestBoxDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
 	}
 }
 
@@ -783,8 +827,14 @@ func poly5SteepestBoxAbs(v float64) float64 {
 func poly5SteepestBoxRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5SteepestBoxDifferences) {
 	var h [5]float64
 	poly5SteepestBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5SteepestBoxUnitRoundoff * poly5SteepestBoxAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5SteepestBoxUnitRoundoff * poly5SteepestBoxAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5SteepestBoxUnitRoundoff * poly5SteepestBoxAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5SteepestBoxUnitRoundoff * poly5SteepestBoxAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5SteepestBoxUnitRoundoff * poly5SteepestBoxAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5SteepestBoxUnitRoundoff * poly5SteepestBoxAbs(x[4]) * h[4]
 	}
 }
 
@@ -889,10 +939,34 @@ func poly5SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5SteepestBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5SteepestBoxLarger(poly5SteepestBoxAbs(fx), 1)
-	for i := range g {
-		w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i])+e[i])*w)
-		floor = poly5SteepestBoxLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i])+e[i])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i+1]), 1) / scale
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i+1])+e[i+1])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i+2]), 1) / scale
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i+2])+e[i+2])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i+3]), 1) / scale
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i+3])+e[i+3])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[4]), 1) / scale
+			measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[4])+e[4])*w)
+			floor = poly5SteepestBoxLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -902,8 +976,22 @@ func poly5SteepestBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5SteepestBoxStepWithin(s, x *[5]float64, tol float64, diffs *poly5SteepestBoxDifferences) bool {
-	for i := range s {
-		if !(poly5SteepestBoxAbs(s[i]) <= tol*poly5SteepestBoxStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5SteepestBoxAbs(s[i]) <= tol*poly5SteepestBoxStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5SteepestBoxAbs(s[i+1]) <= tol*poly5SteepestBoxStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5SteepestBoxAbs(s[i+2]) <= tol*poly5SteepestBoxStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5SteepestBoxAbs(s[i+3]) <= tol*poly5SteepestBoxStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5SteepestBoxAbs(s[4]) <= tol*poly5SteepestBoxStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -926,9 +1014,23 @@ func poly5SteepestBoxStepScale(xi float64, i int, diffs *poly5SteepestBoxDiffere
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly5SteepestBoxCurvaturePair(s, y, x *[5]float64, b *poly5SteepestBoxBox) {
-	for i := range s {
-		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
-			y[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
+				y[i] = 0
+			}
+			if s[i+1] == 0 && (x[i+1] <= b.lower[i+1] || x[i+1] >= b.upper[i+1]) {
+				y[i+1] = 0
+			}
+			if s[i+2] == 0 && (x[i+2] <= b.lower[i+2] || x[i+2] >= b.upper[i+2]) {
+				y[i+2] = 0
+			}
+			if s[i+3] == 0 && (x[i+3] <= b.lower[i+3] || x[i+3] >= b.upper[i+3]) {
+				y[i+3] = 0
+			}
+		}
+		if s[4] == 0 && (x[4] <= b.lower[4] || x[4] >= b.upper[4]) {
+			y[4] = 0
 		}
 	}
 }
@@ -964,8 +1066,14 @@ func poly5SteepestBoxLearnCurvature(s, y *[5]float64, diffs *poly5SteepestBoxDif
 func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5]float64, diffs *poly5SteepestBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
-		reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[i]-poly5SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+	{
+		for i := 0; i < 4; i += 4 {
+			reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[i]-poly5SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+			reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[i+1]-poly5SteepestBoxClampBetween(x[i+1]-g[i+1], b.lower[i+1], b.upper[i+1])))
+			reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[i+2]-poly5SteepestBoxClampBetween(x[i+2]-g[i+2], b.lower[i+2], b.upper[i+2])))
+			reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[i+3]-poly5SteepestBoxClampBetween(x[i+3]-g[i+3], b.lower[i+3], b.upper[i+3])))
+		}
+		reach = poly5SteepestBoxLarger(reach, poly5SteepestBoxAbs(x[4]-poly5SteepestBoxClampBetween(x[4]-g[4], b.lower[4], b.upper[4])))
 	}
 	var free [5]float64
 	var active [5]bool
@@ -980,12 +1088,38 @@ func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5
 		}
 	}
 	poly5SteepestBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
-		if active[i] {
-			d[i] = -g[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			if active[i] {
+				d[i] = -g[i]
+			}
+			if poly5SteepestBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
+				d[i] = 0
+			}
+			if active[i+1] {
+				d[i+1] = -g[i+1]
+			}
+			if poly5SteepestBoxPushedAgainst(x[i+1], -d[i+1], b.lower[i+1], b.upper[i+1]) {
+				d[i+1] = 0
+			}
+			if active[i+2] {
+				d[i+2] = -g[i+2]
+			}
+			if poly5SteepestBoxPushedAgainst(x[i+2], -d[i+2], b.lower[i+2], b.upper[i+2]) {
+				d[i+2] = 0
+			}
+			if active[i+3] {
+				d[i+3] = -g[i+3]
+			}
+			if poly5SteepestBoxPushedAgainst(x[i+3], -d[i+3], b.lower[i+3], b.upper[i+3]) {
+				d[i+3] = 0
+			}
 		}
-		if poly5SteepestBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
-			d[i] = 0
+		if active[4] {
+			d[4] = -g[4]
+		}
+		if poly5SteepestBoxPushedAgainst(x[4], -d[4], b.lower[4], b.upper[4]) {
+			d[4] = 0
 		}
 	}
 }
@@ -998,8 +1132,14 @@ func poly5SteepestBoxSolveDirection(dir *poly5SteepestBoxDirection, g, d *[5]flo
 // poly5SteepestBoxDot returns aᵀb.
 func poly5SteepestBoxDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
@@ -1028,9 +1168,31 @@ func (f *poly5SteepestBoxStepFloor) at(x, d *[5]float64, diffs *poly5SteepestBox
 // step test, min over i of tol·poly5SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5SteepestBoxTinyStep(x, d *[5]float64, tol float64, diffs *poly5SteepestBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5SteepestBoxStepScale(x[i], i, diffs) / poly5SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5SteepestBoxStepScale(x[i], i, diffs) / poly5SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5SteepestBoxStepScale(x[i+1], i+1, diffs) / poly5SteepestBoxAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5SteepestBoxStepScale(x[i+2], i+2, diffs) / poly5SteepestBoxAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5SteepestBoxStepScale(x[i+3], i+3, diffs) / poly5SteepestBoxAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5SteepestBoxStepScale(x[4], 4, diffs) / poly5SteepestBoxAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1274,22 @@ func poly5SteepestBoxShrinkDirection(d, g *[5]float64) {
 // poly5SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5SteepestBoxMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5SteepestBoxAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5SteepestBoxAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5SteepestBoxAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5SteepestBoxAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5SteepestBoxAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5SteepestBoxAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1298,14 @@ func poly5SteepestBoxMaxAbs(x *[5]float64) float64 {
 
 // poly5SteepestBoxScaleBy sets x = c·x.
 func poly5SteepestBoxScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1181,8 +1363,22 @@ func (r *poly5SteepestBoxRiseTrend) contradicts() bool {
 // poly5SteepestBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5SteepestBoxFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5SteepestBoxAbs(xt[i]-x[i]-want) <= 0.01*poly5SteepestBoxAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5SteepestBoxAbs(xt[i]-x[i]-want) <= 0.01*poly5SteepestBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5SteepestBoxAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5SteepestBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5SteepestBoxAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5SteepestBoxAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5SteepestBoxAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5SteepestBoxAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5SteepestBoxAbs(xt[4]-x[4]-want) <= 0.01*poly5SteepestBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1242,8 +1438,14 @@ func poly5SteepestBoxTrialPoint(out, x *[5]float64, t float64, d *[5]float64, b 
 // stands in for armijoDecrease when the spec has bounds.
 func poly5SteepestBoxAcceptable(fx, ft, t, slope float64, x, xt, g *[5]float64) bool {
 	var change float64
-	for i := range x {
-		change += g[i] * (xt[i] - x[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			change += g[i] * (xt[i] - x[i])
+			change += g[i+1] * (xt[i+1] - x[i+1])
+			change += g[i+2] * (xt[i+2] - x[i+2])
+			change += g[i+3] * (xt[i+3] - x[i+3])
+		}
+		change += g[4] * (xt[4] - x[4])
 	}
 	return change < 0 && ft <= fx+poly5SteepestBoxStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1255,8 +1457,14 @@ func poly5SteepestBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float6
 
 // poly5SteepestBoxDifference sets out = a − b.
 func poly5SteepestBoxDifference(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

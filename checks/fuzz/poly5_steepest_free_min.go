@@ -600,8 +600,14 @@ func (s *poly5SteepestFreeDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly5SteepestFreeNegate sets out = −x.
 func poly5SteepestFreeNegate(out, x *[5]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
 	}
 }
 
@@ -660,8 +666,22 @@ func poly5SteepestFreeValue(recv *Poly, x, g *[5]float64, diffs *poly5SteepestFr
 
 // poly5SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly5SteepestFreeFiniteVec(x *[5]float64) bool {
-	for i := range x {
-		if !poly5SteepestFreeFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !poly5SteepestFreeFinite(x[i]) {
+				return false
+			}
+			if !poly5SteepestFreeFinite(x[i+1]) {
+				return false
+			}
+			if !poly5SteepestFreeFinite(x[i+2]) {
+				return false
+			}
+			if !poly5SteepestFreeFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !poly5SteepestFreeFinite(x[4]) {
 			return false
 		}
 	}
@@ -715,15 +735,27 @@ func poly5SteepestFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
 	}
 	var doubled [5]float64
 	calls += poly5SteepestFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly5SteepestFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly5SteepestFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * poly5SteepestFreeAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * poly5SteepestFreeAbs(g[i]-doubled[i])
+			e[i+1] += 3 * poly5SteepestFreeAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * poly5SteepestFreeAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * poly5SteepestFreeAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * poly5SteepestFreeAbs(g[4]-doubled[4])
 	}
 	return calls, true
 }
@@ -731,8 +763,14 @@ func poly5SteepestFreeConfirmGradient(recv *Poly, x *[5]float64, fx float64, g, 
 // poly5SteepestFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly5SteepestFreeGradientError(x *[5]float64, fx float64, g, e *[5]float64, diffs *poly5SteepestFreeDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
 	}
 }
 
@@ -753,8 +791,14 @@ func poly5SteepestFreeAbs(v float64) float64 {
 func poly5SteepestFreeRoundingFloor(recv *Poly, x, g, e *[5]float64, diffs *poly5SteepestFreeDifferences) {
 	var h [5]float64
 	poly5SteepestFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * poly5SteepestFreeUnitRoundoff * poly5SteepestFreeAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * poly5SteepestFreeUnitRoundoff * poly5SteepestFreeAbs(x[i]) * h[i]
+			e[i+1] += 4 * poly5SteepestFreeUnitRoundoff * poly5SteepestFreeAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * poly5SteepestFreeUnitRoundoff * poly5SteepestFreeAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * poly5SteepestFreeUnitRoundoff * poly5SteepestFreeAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * poly5SteepestFreeUnitRoundoff * poly5SteepestFreeAbs(x[4]) * h[4]
 	}
 }
 
@@ -856,10 +900,34 @@ func poly5SteepestFreeStationarity(g, e, x *[5]float64, fx float64, b *poly5Stee
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5SteepestFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
 	scale := poly5SteepestFreeLarger(poly5SteepestFreeAbs(fx), 1)
-	for i := range g {
-		w := poly5SteepestFreeLarger(poly5SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly5SteepestFreeLarger(measure, (poly5SteepestFreeAbs(g[i])+e[i])*w)
-		floor = poly5SteepestFreeLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5SteepestFreeLarger(poly5SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = poly5SteepestFreeLarger(measure, (poly5SteepestFreeAbs(g[i])+e[i])*w)
+				floor = poly5SteepestFreeLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5SteepestFreeLarger(poly5SteepestFreeAbs(x[i+1]), 1) / scale
+				measure = poly5SteepestFreeLarger(measure, (poly5SteepestFreeAbs(g[i+1])+e[i+1])*w)
+				floor = poly5SteepestFreeLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5SteepestFreeLarger(poly5SteepestFreeAbs(x[i+2]), 1) / scale
+				measure = poly5SteepestFreeLarger(measure, (poly5SteepestFreeAbs(g[i+2])+e[i+2])*w)
+				floor = poly5SteepestFreeLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5SteepestFreeLarger(poly5SteepestFreeAbs(x[i+3]), 1) / scale
+				measure = poly5SteepestFreeLarger(measure, (poly5SteepestFreeAbs(g[i+3])+e[i+3])*w)
+				floor = poly5SteepestFreeLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5SteepestFreeLarger(poly5SteepestFreeAbs(x[4]), 1) / scale
+			measure = poly5SteepestFreeLarger(measure, (poly5SteepestFreeAbs(g[4])+e[4])*w)
+			floor = poly5SteepestFreeLarger(floor, e[4]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +937,22 @@ func poly5SteepestFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly5SteepestFreeStepWithin(s, x *[5]float64, tol float64, diffs *poly5SteepestFreeDifferences) bool {
-	for i := range s {
-		if !(poly5SteepestFreeAbs(s[i]) <= tol*poly5SteepestFreeStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(poly5SteepestFreeAbs(s[i]) <= tol*poly5SteepestFreeStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(poly5SteepestFreeAbs(s[i+1]) <= tol*poly5SteepestFreeStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(poly5SteepestFreeAbs(s[i+2]) <= tol*poly5SteepestFreeStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(poly5SteepestFreeAbs(s[i+3]) <= tol*poly5SteepestFreeStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(poly5SteepestFreeAbs(s[4]) <= tol*poly5SteepestFreeStepScale(x[4], 4, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +983,14 @@ func poly5SteepestFreeSolveDirection(dir *poly5SteepestFreeDirection, g, d *[5]f
 // poly5SteepestFreeDot returns aᵀb.
 func poly5SteepestFreeDot(a, b *[5]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
 	}
 	return s
 }
@@ -931,9 +1019,31 @@ func (f *poly5SteepestFreeStepFloor) at(x, d *[5]float64, diffs *poly5SteepestFr
 // step test, min over i of tol·poly5SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly5SteepestFreeTinyStep(x, d *[5]float64, tol float64, diffs *poly5SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * poly5SteepestFreeStepScale(x[i], i, diffs) / poly5SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * poly5SteepestFreeStepScale(x[i], i, diffs) / poly5SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * poly5SteepestFreeStepScale(x[i+1], i+1, diffs) / poly5SteepestFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * poly5SteepestFreeStepScale(x[i+2], i+2, diffs) / poly5SteepestFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * poly5SteepestFreeStepScale(x[i+3], i+3, diffs) / poly5SteepestFreeAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * poly5SteepestFreeStepScale(x[4], 4, diffs) / poly5SteepestFreeAbs(d[4]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1015,8 +1125,22 @@ func poly5SteepestFreeShrinkDirection(d, g *[5]float64) {
 // poly5SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly5SteepestFreeMaxAbs(x *[5]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := poly5SteepestFreeAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := poly5SteepestFreeAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := poly5SteepestFreeAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := poly5SteepestFreeAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := poly5SteepestFreeAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := poly5SteepestFreeAbs(x[4]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1025,8 +1149,14 @@ func poly5SteepestFreeMaxAbs(x *[5]float64) float64 {
 
 // poly5SteepestFreeScaleBy sets x = c·x.
 func poly5SteepestFreeScaleBy(x *[5]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
 	}
 }
 
@@ -1084,8 +1214,22 @@ func (r *poly5SteepestFreeRiseTrend) contradicts() bool {
 // poly5SteepestFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly5SteepestFreeFaithfulStep(x, xt, d *[5]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(poly5SteepestFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5SteepestFreeAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(poly5SteepestFreeAbs(xt[i]-x[i]-want) <= 0.01*poly5SteepestFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(poly5SteepestFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly5SteepestFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(poly5SteepestFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly5SteepestFreeAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(poly5SteepestFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly5SteepestFreeAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(poly5SteepestFreeAbs(xt[4]-x[4]-want) <= 0.01*poly5SteepestFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1118,8 +1262,14 @@ func poly5SteepestFreeTrialPoint(out, x *[5]float64, t float64, d *[5]float64, b
 
 // poly5SteepestFreeMoveTo sets out = x + t·d.
 func poly5SteepestFreeMoveTo(out, x *[5]float64, t float64, d *[5]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
 	}
 }
 
@@ -1145,8 +1295,14 @@ func poly5SteepestFreeBacktrackTrial(fx, slope, t, ft, previous, fPrevious float
 
 // poly5SteepestFreeDifference sets out = a − b.
 func poly5SteepestFreeDifference(out, a, b *[5]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
 	}
 }
 

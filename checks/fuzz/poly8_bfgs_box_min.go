@@ -596,8 +596,11 @@ type poly8BFGSBoxDirection struct {
 
 func (s *poly8BFGSBoxDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
+		for j := 0; j < 8; j += 4 {
 			s.h[i][j] = 0
+			s.h[i][j+1] = 0
+			s.h[i][j+2] = 0
+			s.h[i][j+3] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -605,8 +608,11 @@ func (s *poly8BFGSBoxDirection) reset() {
 }
 
 func (s *poly8BFGSBoxDirection) compute(g, d *[8]float64) {
-	for i := range s.h {
+	for i := 0; i < 8; i += 4 {
 		d[i] = -poly8BFGSBoxDot(&s.h[i], g)
+		d[i+1] = -poly8BFGSBoxDot(&s.h[i+1], g)
+		d[i+2] = -poly8BFGSBoxDot(&s.h[i+2], g)
+		d[i+3] = -poly8BFGSBoxDot(&s.h[i+3], g)
 	}
 }
 
@@ -617,8 +623,11 @@ func (s *poly8BFGSBoxDirection) update(step, change *[8]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly8BFGSBoxDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
+		for i := 0; i < 8; i += 4 {
 			s.h[i][i] = gamma
+			s.h[i+1][i+1] = gamma
+			s.h[i+2][i+2] = gamma
+			s.h[i+3][i+3] = gamma
 		}
 		s.scaled = true
 	}
@@ -626,8 +635,11 @@ func (s *poly8BFGSBoxDirection) update(step, change *[8]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [8]float64
-	for i := range s.h {
+	for i := 0; i < 8; i += 4 {
 		hy[i] = poly8BFGSBoxDot(&s.h[i], change)
+		hy[i+1] = poly8BFGSBoxDot(&s.h[i+1], change)
+		hy[i+2] = poly8BFGSBoxDot(&s.h[i+2], change)
+		hy[i+3] = poly8BFGSBoxDot(&s.h[i+3], change)
 	}
 	outer := (rho*rho*poly8BFGSBoxDot(change, &hy) + rho)
 	for i := range s.h {
@@ -635,8 +647,11 @@ func (s *poly8BFGSBoxDirection) update(step, change *[8]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		for j := 0; j < 8; j += 4 {
+			s.h[i][j] += a*step[j] - b*hy[j]
+			s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+			s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+			s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
 		}
 	}
 }
@@ -653,8 +668,11 @@ func (s *poly8BFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly8BFGSBoxDot returns aᵀb.
 func poly8BFGSBoxDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
@@ -683,8 +701,11 @@ const (
 // poly8BFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly8BFGSBoxEnterBox(x *[8]float64, b *poly8BFGSBoxBox) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] = poly8BFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+		x[i+1] = poly8BFGSBoxClampBetween(x[i+1], b.lower[i+1], b.upper[i+1])
+		x[i+2] = poly8BFGSBoxClampBetween(x[i+2], b.lower[i+2], b.upper[i+2])
+		x[i+3] = poly8BFGSBoxClampBetween(x[i+3], b.lower[i+3], b.upper[i+3])
 	}
 }
 
@@ -729,8 +750,17 @@ func poly8BFGSBoxFinite(v float64) bool {
 
 // poly8BFGSBoxFiniteVec reports whether every component of x is finite.
 func poly8BFGSBoxFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8BFGSBoxFinite(x[i]) {
+			return false
+		}
+		if !poly8BFGSBoxFinite(x[i+1]) {
+			return false
+		}
+		if !poly8BFGSBoxFinite(x[i+2]) {
+			return false
+		}
+		if !poly8BFGSBoxFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -784,15 +814,21 @@ func poly8BFGSBoxConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[8
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8BFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly8BFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly8BFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8BFGSBoxAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8BFGSBoxAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8BFGSBoxAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8BFGSBoxAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -800,8 +836,11 @@ func poly8BFGSBoxConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[8
 // poly8BFGSBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly8BFGSBoxGradientError(x *[8]float64, fx float64, g, e *[8]float64, diffs *poly8BFGSBoxDifferences) {
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] = 0
+		e[i+1] = 0
+		e[i+2] = 0
+		e[i+3] = 0
 	}
 }
 
@@ -822,8 +861,11 @@ func poly8BFGSBoxAbs(v float64) float64 {
 func poly8BFGSBoxRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8BFGSBoxDifferences) {
 	var h [8]float64
 	poly8BFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8BFGSBoxUnitRoundoff * poly8BFGSBoxAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8BFGSBoxUnitRoundoff * poly8BFGSBoxAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8BFGSBoxUnitRoundoff * poly8BFGSBoxAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8BFGSBoxUnitRoundoff * poly8BFGSBoxAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -928,10 +970,27 @@ func poly8BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8BFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8BFGSBoxLarger(poly8BFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly8BFGSBoxLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i])+e[i])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i+1]), 1) / scale
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i+1])+e[i+1])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i+2]), 1) / scale
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i+2])+e[i+2])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i+3]), 1) / scale
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i+3])+e[i+3])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -941,8 +1000,17 @@ func poly8BFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8BFGSBoxStepWithin(s, x *[8]float64, tol float64, diffs *poly8BFGSBoxDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8BFGSBoxAbs(s[i]) <= tol*poly8BFGSBoxStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8BFGSBoxAbs(s[i+1]) <= tol*poly8BFGSBoxStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8BFGSBoxAbs(s[i+2]) <= tol*poly8BFGSBoxStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8BFGSBoxAbs(s[i+3]) <= tol*poly8BFGSBoxStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -965,9 +1033,18 @@ func poly8BFGSBoxStepScale(xi float64, i int, diffs *poly8BFGSBoxDifferences) fl
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly8BFGSBoxCurvaturePair(s, y, x *[8]float64, b *poly8BFGSBoxBox) {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
 			y[i] = 0
+		}
+		if s[i+1] == 0 && (x[i+1] <= b.lower[i+1] || x[i+1] >= b.upper[i+1]) {
+			y[i+1] = 0
+		}
+		if s[i+2] == 0 && (x[i+2] <= b.lower[i+2] || x[i+2] >= b.upper[i+2]) {
+			y[i+2] = 0
+		}
+		if s[i+3] == 0 && (x[i+3] <= b.lower[i+3] || x[i+3] >= b.upper[i+3]) {
+			y[i+3] = 0
 		}
 	}
 }
@@ -1003,8 +1080,11 @@ func poly8BFGSBoxLearnCurvature(s, y *[8]float64, diffs *poly8BFGSBoxDifferences
 func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64, diffs *poly8BFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		reach = poly8BFGSBoxLarger(reach, poly8BFGSBoxAbs(x[i]-poly8BFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+		reach = poly8BFGSBoxLarger(reach, poly8BFGSBoxAbs(x[i+1]-poly8BFGSBoxClampBetween(x[i+1]-g[i+1], b.lower[i+1], b.upper[i+1])))
+		reach = poly8BFGSBoxLarger(reach, poly8BFGSBoxAbs(x[i+2]-poly8BFGSBoxClampBetween(x[i+2]-g[i+2], b.lower[i+2], b.upper[i+2])))
+		reach = poly8BFGSBoxLarger(reach, poly8BFGSBoxAbs(x[i+3]-poly8BFGSBoxClampBetween(x[i+3]-g[i+3], b.lower[i+3], b.upper[i+3])))
 	}
 	var free [8]float64
 	var active [8]bool
@@ -1019,12 +1099,30 @@ func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64
 		}
 	}
 	poly8BFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if active[i] {
 			d[i] = -g[i]
 		}
 		if poly8BFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
+		}
+		if active[i+1] {
+			d[i+1] = -g[i+1]
+		}
+		if poly8BFGSBoxPushedAgainst(x[i+1], -d[i+1], b.lower[i+1], b.upper[i+1]) {
+			d[i+1] = 0
+		}
+		if active[i+2] {
+			d[i+2] = -g[i+2]
+		}
+		if poly8BFGSBoxPushedAgainst(x[i+2], -d[i+2], b.lower[i+2], b.upper[i+2]) {
+			d[i+2] = 0
+		}
+		if active[i+3] {
+			d[i+3] = -g[i+3]
+		}
+		if poly8BFGSBoxPushedAgainst(x[i+3], -d[i+3], b.lower[i+3], b.upper[i+3]) {
+			d[i+3] = 0
 		}
 	}
 }
@@ -1058,9 +1156,24 @@ func (f *poly8BFGSBoxStepFloor) at(x, d *[8]float64, diffs *poly8BFGSBoxDifferen
 // step test, min over i of tol·poly8BFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8BFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8BFGSBoxStepScale(x[i], i, diffs) / poly8BFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8BFGSBoxStepScale(x[i+1], i+1, diffs) / poly8BFGSBoxAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8BFGSBoxStepScale(x[i+2], i+2, diffs) / poly8BFGSBoxAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8BFGSBoxStepScale(x[i+3], i+3, diffs) / poly8BFGSBoxAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1208,8 +1321,17 @@ func poly8BFGSBoxShrinkDirection(d, g *[8]float64) {
 // poly8BFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8BFGSBoxMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8BFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8BFGSBoxAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8BFGSBoxAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8BFGSBoxAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1218,8 +1340,11 @@ func poly8BFGSBoxMaxAbs(x *[8]float64) float64 {
 
 // poly8BFGSBoxScaleBy sets x = c·x.
 func poly8BFGSBoxScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1284,8 +1409,17 @@ func (r *poly8BFGSBoxRiseTrend) contradicts() bool {
 // poly8BFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8BFGSBoxFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8BFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly8BFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8BFGSBoxAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8BFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8BFGSBoxAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8BFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8BFGSBoxAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8BFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1436,8 +1570,11 @@ func poly8BFGSBoxExpandTrial(previous, current *poly8BFGSBoxLinePoint) float64 {
 
 // poly8BFGSBoxGradientChange sets out = a − b.
 func poly8BFGSBoxGradientChange(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

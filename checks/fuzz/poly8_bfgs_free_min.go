@@ -586,8 +586,11 @@ type poly8BFGSFreeDirection struct {
 
 func (s *poly8BFGSFreeDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
+		for j := 0; j < 8; j += 4 {
 			s.h[i][j] = 0
+			s.h[i][j+1] = 0
+			s.h[i][j+2] = 0
+			s.h[i][j+3] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +598,11 @@ func (s *poly8BFGSFreeDirection) reset() {
 }
 
 func (s *poly8BFGSFreeDirection) compute(g, d *[8]float64) {
-	for i := range s.h {
+	for i := 0; i < 8; i += 4 {
 		d[i] = -poly8BFGSFreeDot(&s.h[i], g)
+		d[i+1] = -poly8BFGSFreeDot(&s.h[i+1], g)
+		d[i+2] = -poly8BFGSFreeDot(&s.h[i+2], g)
+		d[i+3] = -poly8BFGSFreeDot(&s.h[i+3], g)
 	}
 }
 
@@ -607,8 +613,11 @@ func (s *poly8BFGSFreeDirection) update(step, change *[8]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / poly8BFGSFreeDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
+		for i := 0; i < 8; i += 4 {
 			s.h[i][i] = gamma
+			s.h[i+1][i+1] = gamma
+			s.h[i+2][i+2] = gamma
+			s.h[i+3][i+3] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +625,11 @@ func (s *poly8BFGSFreeDirection) update(step, change *[8]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [8]float64
-	for i := range s.h {
+	for i := 0; i < 8; i += 4 {
 		hy[i] = poly8BFGSFreeDot(&s.h[i], change)
+		hy[i+1] = poly8BFGSFreeDot(&s.h[i+1], change)
+		hy[i+2] = poly8BFGSFreeDot(&s.h[i+2], change)
+		hy[i+3] = poly8BFGSFreeDot(&s.h[i+3], change)
 	}
 	outer := (rho*rho*poly8BFGSFreeDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +637,11 @@ func (s *poly8BFGSFreeDirection) update(step, change *[8]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		for j := 0; j < 8; j += 4 {
+			s.h[i][j] += a*step[j] - b*hy[j]
+			s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+			s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+			s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
 		}
 	}
 }
@@ -643,8 +658,11 @@ func (s *poly8BFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly8BFGSFreeDot returns aᵀb.
 func poly8BFGSFreeDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
@@ -699,8 +717,17 @@ func poly8BFGSFreeFinite(v float64) bool {
 
 // poly8BFGSFreeFiniteVec reports whether every component of x is finite.
 func poly8BFGSFreeFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8BFGSFreeFinite(x[i]) {
+			return false
+		}
+		if !poly8BFGSFreeFinite(x[i+1]) {
+			return false
+		}
+		if !poly8BFGSFreeFinite(x[i+2]) {
+			return false
+		}
+		if !poly8BFGSFreeFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -754,15 +781,21 @@ func poly8BFGSFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8BFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly8BFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly8BFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8BFGSFreeAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8BFGSFreeAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8BFGSFreeAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8BFGSFreeAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -770,8 +803,11 @@ func poly8BFGSFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[
 // poly8BFGSFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly8BFGSFreeGradientError(x *[8]float64, fx float64, g, e *[8]float64, diffs *poly8BFGSFreeDifferences) {
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] = 0
+		e[i+1] = 0
+		e[i+2] = 0
+		e[i+3] = 0
 	}
 }
 
@@ -792,8 +828,11 @@ func poly8BFGSFreeAbs(v float64) float64 {
 func poly8BFGSFreeRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8BFGSFreeDifferences) {
 	var h [8]float64
 	poly8BFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8BFGSFreeUnitRoundoff * poly8BFGSFreeAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8BFGSFreeUnitRoundoff * poly8BFGSFreeAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8BFGSFreeUnitRoundoff * poly8BFGSFreeAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8BFGSFreeUnitRoundoff * poly8BFGSFreeAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -895,10 +934,27 @@ func poly8BFGSFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8BFGSFree
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8BFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8BFGSFreeLarger(poly8BFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly8BFGSFreeLarger(poly8BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8BFGSFreeLarger(measure, (poly8BFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly8BFGSFreeLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8BFGSFreeLarger(poly8BFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8BFGSFreeLarger(measure, (poly8BFGSFreeAbs(g[i])+e[i])*w)
+			floor = poly8BFGSFreeLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8BFGSFreeLarger(poly8BFGSFreeAbs(x[i+1]), 1) / scale
+			measure = poly8BFGSFreeLarger(measure, (poly8BFGSFreeAbs(g[i+1])+e[i+1])*w)
+			floor = poly8BFGSFreeLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8BFGSFreeLarger(poly8BFGSFreeAbs(x[i+2]), 1) / scale
+			measure = poly8BFGSFreeLarger(measure, (poly8BFGSFreeAbs(g[i+2])+e[i+2])*w)
+			floor = poly8BFGSFreeLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8BFGSFreeLarger(poly8BFGSFreeAbs(x[i+3]), 1) / scale
+			measure = poly8BFGSFreeLarger(measure, (poly8BFGSFreeAbs(g[i+3])+e[i+3])*w)
+			floor = poly8BFGSFreeLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +964,17 @@ func poly8BFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8BFGSFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8BFGSFreeDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8BFGSFreeAbs(s[i]) <= tol*poly8BFGSFreeStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8BFGSFreeAbs(s[i+1]) <= tol*poly8BFGSFreeStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8BFGSFreeAbs(s[i+2]) <= tol*poly8BFGSFreeStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8BFGSFreeAbs(s[i+3]) <= tol*poly8BFGSFreeStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1026,24 @@ func (f *poly8BFGSFreeStepFloor) at(x, d *[8]float64, diffs *poly8BFGSFreeDiffer
 // step test, min over i of tol·poly8BFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8BFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8BFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8BFGSFreeStepScale(x[i], i, diffs) / poly8BFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8BFGSFreeStepScale(x[i+1], i+1, diffs) / poly8BFGSFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8BFGSFreeStepScale(x[i+2], i+2, diffs) / poly8BFGSFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8BFGSFreeStepScale(x[i+3], i+3, diffs) / poly8BFGSFreeAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1191,17 @@ func poly8BFGSFreeShrinkDirection(d, g *[8]float64) {
 // poly8BFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8BFGSFreeMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8BFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8BFGSFreeAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8BFGSFreeAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8BFGSFreeAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1210,11 @@ func poly8BFGSFreeMaxAbs(x *[8]float64) float64 {
 
 // poly8BFGSFreeScaleBy sets x = c·x.
 func poly8BFGSFreeScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1187,8 +1279,17 @@ func (r *poly8BFGSFreeRiseTrend) contradicts() bool {
 // poly8BFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8BFGSFreeFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8BFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly8BFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8BFGSFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8BFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8BFGSFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8BFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8BFGSFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8BFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1338,11 @@ func poly8BFGSFreeTrialPoint(out, x *[8]float64, t float64, d *[8]float64, b *po
 
 // poly8BFGSFreeMoveTo sets out = x + t·d.
 func poly8BFGSFreeMoveTo(out, x *[8]float64, t float64, d *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = x[i] + t*d[i]
+		out[i+1] = x[i+1] + t*d[i+1]
+		out[i+2] = x[i+2] + t*d[i+2]
+		out[i+3] = x[i+3] + t*d[i+3]
 	}
 }
 
@@ -1304,8 +1408,11 @@ func poly8BFGSFreeExpandTrial(previous, current *poly8BFGSFreeLinePoint) float64
 
 // poly8BFGSFreeGradientChange sets out = a − b.
 func poly8BFGSFreeGradientChange(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

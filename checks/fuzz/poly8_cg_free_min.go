@@ -618,8 +618,11 @@ type poly8CGFreeDirection struct {
 func (s *poly8CGFreeDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
+	for i := 0; i < 8; i += 4 {
 		s.curvature[i] = 1
+		s.curvature[i+1] = 1
+		s.curvature[i+2] = 1
+		s.curvature[i+3] = 1
 	}
 }
 
@@ -627,16 +630,22 @@ func (s *poly8CGFreeDirection) compute(g, d *[8]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		for i := 0; i < 8; i += 4 {
+			z[i] /= s.curvature[i]
+			z[i+1] /= s.curvature[i+1]
+			z[i+2] /= s.curvature[i+2]
+			z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
 		}
 	}
 	gz, zy := poly8CGFreeDot(g, &z), poly8CGFreeDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && poly8CGFreeAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = poly8CGFreeLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	for i := 0; i < 8; i += 4 {
+		d[i] = -z[i] + beta*s.previous[i]
+		d[i+1] = -z[i+1] + beta*s.previous[i+1]
+		d[i+2] = -z[i+2] + beta*s.previous[i+2]
+		d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +675,11 @@ func (s *poly8CGFreeDirection) update(step, change *[8]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
+		for i := 0; i < 8; i += 4 {
 			s.curvature[i] = gamma
+			s.curvature[i+1] = gamma
+			s.curvature[i+2] = gamma
+			s.curvature[i+3] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +714,11 @@ func (s *poly8CGFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly8CGFreeDot returns aᵀb.
 func poly8CGFreeDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
@@ -782,8 +797,17 @@ func poly8CGFreeValue(recv *Poly, x, g *[8]float64, diffs *poly8CGFreeDifference
 
 // poly8CGFreeFiniteVec reports whether every component of x is finite.
 func poly8CGFreeFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8CGFreeFinite(x[i]) {
+			return false
+		}
+		if !poly8CGFreeFinite(x[i+1]) {
+			return false
+		}
+		if !poly8CGFreeFinite(x[i+2]) {
+			return false
+		}
+		if !poly8CGFreeFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -837,15 +861,21 @@ func poly8CGFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[8]
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8CGFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly8CGFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly8CGFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8CGFreeAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8CGFreeAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8CGFreeAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8CGFreeAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -853,8 +883,11 @@ func poly8CGFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[8]
 // poly8CGFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly8CGFreeGradientError(x *[8]float64, fx float64, g, e *[8]float64, diffs *poly8CGFreeDifferences) {
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] = 0
+		e[i+1] = 0
+		e[i+2] = 0
+		e[i+3] = 0
 	}
 }
 
@@ -867,8 +900,11 @@ func poly8CGFreeGradientError(x *[8]float64, fx float64, g, e *[8]float64, diffs
 func poly8CGFreeRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8CGFreeDifferences) {
 	var h [8]float64
 	poly8CGFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8CGFreeUnitRoundoff * poly8CGFreeAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8CGFreeUnitRoundoff * poly8CGFreeAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8CGFreeUnitRoundoff * poly8CGFreeAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8CGFreeUnitRoundoff * poly8CGFreeAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -960,10 +996,27 @@ func poly8CGFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8CGFreeBox)
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8CGFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8CGFreeLarger(poly8CGFreeAbs(fx), 1)
-	for i := range g {
-		w := poly8CGFreeLarger(poly8CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i])+e[i])*w)
-		floor = poly8CGFreeLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i])+e[i])*w)
+			floor = poly8CGFreeLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+1]), 1) / scale
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+1])+e[i+1])*w)
+			floor = poly8CGFreeLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+2]), 1) / scale
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+2])+e[i+2])*w)
+			floor = poly8CGFreeLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+3]), 1) / scale
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+3])+e[i+3])*w)
+			floor = poly8CGFreeLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -973,8 +1026,17 @@ func poly8CGFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8CGFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8CGFreeDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8CGFreeAbs(s[i]) <= tol*poly8CGFreeStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8CGFreeAbs(s[i+1]) <= tol*poly8CGFreeStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8CGFreeAbs(s[i+2]) <= tol*poly8CGFreeStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8CGFreeAbs(s[i+3]) <= tol*poly8CGFreeStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1088,24 @@ func (f *poly8CGFreeStepFloor) at(x, d *[8]float64, diffs *poly8CGFreeDifference
 // step test, min over i of tol·poly8CGFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8CGFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8CGFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8CGFreeStepScale(x[i], i, diffs) / poly8CGFreeAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8CGFreeStepScale(x[i+1], i+1, diffs) / poly8CGFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8CGFreeStepScale(x[i+2], i+2, diffs) / poly8CGFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8CGFreeStepScale(x[i+3], i+3, diffs) / poly8CGFreeAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1253,17 @@ func poly8CGFreeShrinkDirection(d, g *[8]float64) {
 // poly8CGFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8CGFreeMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8CGFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8CGFreeAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8CGFreeAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8CGFreeAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1272,11 @@ func poly8CGFreeMaxAbs(x *[8]float64) float64 {
 
 // poly8CGFreeScaleBy sets x = c·x.
 func poly8CGFreeScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1252,8 +1341,17 @@ func (r *poly8CGFreeRiseTrend) contradicts() bool {
 // poly8CGFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8CGFreeFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8CGFreeAbs(xt[i]-x[i]-want) <= 0.01*poly8CGFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8CGFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8CGFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8CGFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8CGFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8CGFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8CGFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1400,11 @@ func poly8CGFreeTrialPoint(out, x *[8]float64, t float64, d *[8]float64, b *poly
 
 // poly8CGFreeMoveTo sets out = x + t·d.
 func poly8CGFreeMoveTo(out, x *[8]float64, t float64, d *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = x[i] + t*d[i]
+		out[i+1] = x[i+1] + t*d[i+1]
+		out[i+2] = x[i+2] + t*d[i+2]
+		out[i+3] = x[i+3] + t*d[i+3]
 	}
 }
 
@@ -1369,8 +1470,11 @@ func poly8CGFreeExpandTrial(previous, current *poly8CGFreeLinePoint) float64 {
 
 // poly8CGFreeGradientChange sets out = a − b.
 func poly8CGFreeGradientChange(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

@@ -612,8 +612,11 @@ func (s *poly8LBFGSBoxDirection) compute(g, d *[8]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*poly8LBFGSBoxDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
+		for i := 0; i < 8; i += 4 {
 			q[i] -= a * y[i]
+			q[i+1] -= a * y[i+1]
+			q[i+2] -= a * y[i+2]
+			q[i+3] -= a * y[i+3]
 		}
 		k--
 		if k < 0 {
@@ -621,8 +624,11 @@ func (s *poly8LBFGSBoxDirection) compute(g, d *[8]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		for i := 0; i < 8; i += 4 {
+			q[i] *= s.gamma
+			q[i+1] *= s.gamma
+			q[i+2] *= s.gamma
+			q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -633,8 +639,11 @@ func (s *poly8LBFGSBoxDirection) compute(g, d *[8]float64) {
 		}
 		beta := s.rho[k] * poly8LBFGSBoxDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
+		for i := 0; i < 8; i += 4 {
 			q[i] += step[i] * c
+			q[i+1] += step[i+1] * c
+			q[i+2] += step[i+2] * c
+			q[i+3] += step[i+3] * c
 		}
 	}
 	poly8LBFGSBoxNegate(d, &q)
@@ -671,16 +680,22 @@ func (s *poly8LBFGSBoxDirection) firstTrial(t, slope, now float64) float64 {
 // poly8LBFGSBoxDot returns aᵀb.
 func poly8LBFGSBoxDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
 
 // poly8LBFGSBoxNegate sets out = −x.
 func poly8LBFGSBoxNegate(out, x *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = -x[i]
+		out[i+1] = -x[i+1]
+		out[i+2] = -x[i+2]
+		out[i+3] = -x[i+3]
 	}
 }
 
@@ -702,8 +717,11 @@ const (
 // poly8LBFGSBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly8LBFGSBoxEnterBox(x *[8]float64, b *poly8LBFGSBoxBox) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] = poly8LBFGSBoxClampBetween(x[i], b.lower[i], b.upper[i])
+		x[i+1] = poly8LBFGSBoxClampBetween(x[i+1], b.lower[i+1], b.upper[i+1])
+		x[i+2] = poly8LBFGSBoxClampBetween(x[i+2], b.lower[i+2], b.upper[i+2])
+		x[i+3] = poly8LBFGSBoxClampBetween(x[i+3], b.lower[i+3], b.upper[i+3])
 	}
 }
 
@@ -748,8 +766,17 @@ func poly8LBFGSBoxFinite(v float64) bool {
 
 // poly8LBFGSBoxFiniteVec reports whether every component of x is finite.
 func poly8LBFGSBoxFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8LBFGSBoxFinite(x[i]) {
+			return false
+		}
+		if !poly8LBFGSBoxFinite(x[i+1]) {
+			return false
+		}
+		if !poly8LBFGSBoxFinite(x[i+2]) {
+			return false
+		}
+		if !poly8LBFGSBoxFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -909,8 +936,11 @@ func poly8LBFGSBoxMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly8LBFGSBoxNoiseLevel(x *[8]float64, fx float64, g *[8]float64) float64 {
 	sum := poly8LBFGSBoxAbs(fx)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		sum += poly8LBFGSBoxAbs(g[i] * x[i])
+		sum += poly8LBFGSBoxAbs(g[i+1] * x[i+1])
+		sum += poly8LBFGSBoxAbs(g[i+2] * x[i+2])
+		sum += poly8LBFGSBoxAbs(g[i+3] * x[i+3])
 	}
 	return 4 * poly8LBFGSBoxUnitRoundoff * sum
 }
@@ -1037,15 +1067,21 @@ func poly8LBFGSBoxConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8LBFGSBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly8LBFGSBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly8LBFGSBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8LBFGSBoxAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8LBFGSBoxAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8LBFGSBoxAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8LBFGSBoxAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -1079,8 +1115,11 @@ func poly8LBFGSBoxGradientError(x *[8]float64, fx float64, g, e *[8]float64, dif
 func poly8LBFGSBoxRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8LBFGSBoxDifferences) {
 	var h [8]float64
 	poly8LBFGSBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8LBFGSBoxUnitRoundoff * poly8LBFGSBoxAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8LBFGSBoxUnitRoundoff * poly8LBFGSBoxAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8LBFGSBoxUnitRoundoff * poly8LBFGSBoxAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8LBFGSBoxUnitRoundoff * poly8LBFGSBoxAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -1126,10 +1165,27 @@ func poly8LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8LBFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8LBFGSBoxLarger(poly8LBFGSBoxAbs(fx), 1)
-	for i := range g {
-		w := poly8LBFGSBoxLarger(poly8LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8LBFGSBoxLarger(measure, (poly8LBFGSBoxAbs(g[i])+e[i])*w)
-		floor = poly8LBFGSBoxLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8LBFGSBoxLarger(poly8LBFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8LBFGSBoxLarger(measure, (poly8LBFGSBoxAbs(g[i])+e[i])*w)
+			floor = poly8LBFGSBoxLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8LBFGSBoxLarger(poly8LBFGSBoxAbs(x[i+1]), 1) / scale
+			measure = poly8LBFGSBoxLarger(measure, (poly8LBFGSBoxAbs(g[i+1])+e[i+1])*w)
+			floor = poly8LBFGSBoxLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8LBFGSBoxLarger(poly8LBFGSBoxAbs(x[i+2]), 1) / scale
+			measure = poly8LBFGSBoxLarger(measure, (poly8LBFGSBoxAbs(g[i+2])+e[i+2])*w)
+			floor = poly8LBFGSBoxLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8LBFGSBoxLarger(poly8LBFGSBoxAbs(x[i+3]), 1) / scale
+			measure = poly8LBFGSBoxLarger(measure, (poly8LBFGSBoxAbs(g[i+3])+e[i+3])*w)
+			floor = poly8LBFGSBoxLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1139,8 +1195,17 @@ func poly8LBFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8LBFGSBoxStepWithin(s, x *[8]float64, tol float64, diffs *poly8LBFGSBoxDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8LBFGSBoxAbs(s[i]) <= tol*poly8LBFGSBoxStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8LBFGSBoxAbs(s[i+1]) <= tol*poly8LBFGSBoxStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8LBFGSBoxAbs(s[i+2]) <= tol*poly8LBFGSBoxStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8LBFGSBoxAbs(s[i+3]) <= tol*poly8LBFGSBoxStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -1163,9 +1228,18 @@ func poly8LBFGSBoxStepScale(xi float64, i int, diffs *poly8LBFGSBoxDifferences) 
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly8LBFGSBoxCurvaturePair(s, y, x *[8]float64, b *poly8LBFGSBoxBox) {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
 			y[i] = 0
+		}
+		if s[i+1] == 0 && (x[i+1] <= b.lower[i+1] || x[i+1] >= b.upper[i+1]) {
+			y[i+1] = 0
+		}
+		if s[i+2] == 0 && (x[i+2] <= b.lower[i+2] || x[i+2] >= b.upper[i+2]) {
+			y[i+2] = 0
+		}
+		if s[i+3] == 0 && (x[i+3] <= b.lower[i+3] || x[i+3] >= b.upper[i+3]) {
+			y[i+3] = 0
 		}
 	}
 }
@@ -1201,8 +1275,11 @@ func poly8LBFGSBoxLearnCurvature(s, y *[8]float64, diffs *poly8LBFGSBoxDifferenc
 func poly8LBFGSBoxSearchDirection(dir *poly8LBFGSBoxDirection, x, g, d *[8]float64, diffs *poly8LBFGSBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		reach = poly8LBFGSBoxLarger(reach, poly8LBFGSBoxAbs(x[i]-poly8LBFGSBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+		reach = poly8LBFGSBoxLarger(reach, poly8LBFGSBoxAbs(x[i+1]-poly8LBFGSBoxClampBetween(x[i+1]-g[i+1], b.lower[i+1], b.upper[i+1])))
+		reach = poly8LBFGSBoxLarger(reach, poly8LBFGSBoxAbs(x[i+2]-poly8LBFGSBoxClampBetween(x[i+2]-g[i+2], b.lower[i+2], b.upper[i+2])))
+		reach = poly8LBFGSBoxLarger(reach, poly8LBFGSBoxAbs(x[i+3]-poly8LBFGSBoxClampBetween(x[i+3]-g[i+3], b.lower[i+3], b.upper[i+3])))
 	}
 	var free [8]float64
 	var active [8]bool
@@ -1217,12 +1294,30 @@ func poly8LBFGSBoxSearchDirection(dir *poly8LBFGSBoxDirection, x, g, d *[8]float
 		}
 	}
 	poly8LBFGSBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if active[i] {
 			d[i] = -g[i]
 		}
 		if poly8LBFGSBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
+		}
+		if active[i+1] {
+			d[i+1] = -g[i+1]
+		}
+		if poly8LBFGSBoxPushedAgainst(x[i+1], -d[i+1], b.lower[i+1], b.upper[i+1]) {
+			d[i+1] = 0
+		}
+		if active[i+2] {
+			d[i+2] = -g[i+2]
+		}
+		if poly8LBFGSBoxPushedAgainst(x[i+2], -d[i+2], b.lower[i+2], b.upper[i+2]) {
+			d[i+2] = 0
+		}
+		if active[i+3] {
+			d[i+3] = -g[i+3]
+		}
+		if poly8LBFGSBoxPushedAgainst(x[i+3], -d[i+3], b.lower[i+3], b.upper[i+3]) {
+			d[i+3] = 0
 		}
 	}
 }
@@ -1256,9 +1351,24 @@ func (f *poly8LBFGSBoxStepFloor) at(x, d *[8]float64, diffs *poly8LBFGSBoxDiffer
 // step test, min over i of tol·poly8LBFGSBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8LBFGSBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8LBFGSBoxStepScale(x[i], i, diffs) / poly8LBFGSBoxAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8LBFGSBoxStepScale(x[i+1], i+1, diffs) / poly8LBFGSBoxAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8LBFGSBoxStepScale(x[i+2], i+2, diffs) / poly8LBFGSBoxAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8LBFGSBoxStepScale(x[i+3], i+3, diffs) / poly8LBFGSBoxAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1406,8 +1516,17 @@ func poly8LBFGSBoxShrinkDirection(d, g *[8]float64) {
 // poly8LBFGSBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8LBFGSBoxMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8LBFGSBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8LBFGSBoxAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8LBFGSBoxAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8LBFGSBoxAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1416,8 +1535,11 @@ func poly8LBFGSBoxMaxAbs(x *[8]float64) float64 {
 
 // poly8LBFGSBoxScaleBy sets x = c·x.
 func poly8LBFGSBoxScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1482,8 +1604,17 @@ func (r *poly8LBFGSBoxRiseTrend) contradicts() bool {
 // poly8LBFGSBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8LBFGSBoxFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8LBFGSBoxAbs(xt[i]-x[i]-want) <= 0.01*poly8LBFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8LBFGSBoxAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8LBFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8LBFGSBoxAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8LBFGSBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8LBFGSBoxAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8LBFGSBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1634,8 +1765,11 @@ func poly8LBFGSBoxExpandTrial(previous, current *poly8LBFGSBoxLinePoint) float64
 
 // poly8LBFGSBoxGradientChange sets out = a − b.
 func poly8LBFGSBoxGradientChange(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

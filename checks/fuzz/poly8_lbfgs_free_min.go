@@ -602,8 +602,11 @@ func (s *poly8LBFGSFreeDirection) compute(g, d *[8]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*poly8LBFGSFreeDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
+		for i := 0; i < 8; i += 4 {
 			q[i] -= a * y[i]
+			q[i+1] -= a * y[i+1]
+			q[i+2] -= a * y[i+2]
+			q[i+3] -= a * y[i+3]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +614,11 @@ func (s *poly8LBFGSFreeDirection) compute(g, d *[8]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		for i := 0; i < 8; i += 4 {
+			q[i] *= s.gamma
+			q[i+1] *= s.gamma
+			q[i+2] *= s.gamma
+			q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +629,11 @@ func (s *poly8LBFGSFreeDirection) compute(g, d *[8]float64) {
 		}
 		beta := s.rho[k] * poly8LBFGSFreeDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
+		for i := 0; i < 8; i += 4 {
 			q[i] += step[i] * c
+			q[i+1] += step[i+1] * c
+			q[i+2] += step[i+2] * c
+			q[i+3] += step[i+3] * c
 		}
 	}
 	poly8LBFGSFreeNegate(d, &q)
@@ -661,16 +670,22 @@ func (s *poly8LBFGSFreeDirection) firstTrial(t, slope, now float64) float64 {
 // poly8LBFGSFreeDot returns aᵀb.
 func poly8LBFGSFreeDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
 
 // poly8LBFGSFreeNegate sets out = −x.
 func poly8LBFGSFreeNegate(out, x *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = -x[i]
+		out[i+1] = -x[i+1]
+		out[i+2] = -x[i+2]
+		out[i+3] = -x[i+3]
 	}
 }
 
@@ -718,8 +733,17 @@ func poly8LBFGSFreeFinite(v float64) bool {
 
 // poly8LBFGSFreeFiniteVec reports whether every component of x is finite.
 func poly8LBFGSFreeFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8LBFGSFreeFinite(x[i]) {
+			return false
+		}
+		if !poly8LBFGSFreeFinite(x[i+1]) {
+			return false
+		}
+		if !poly8LBFGSFreeFinite(x[i+2]) {
+			return false
+		}
+		if !poly8LBFGSFreeFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -894,8 +918,11 @@ func poly8LBFGSFreeMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func poly8LBFGSFreeNoiseLevel(x *[8]float64, fx float64, g *[8]float64) float64 {
 	sum := poly8LBFGSFreeAbs(fx)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		sum += poly8LBFGSFreeAbs(g[i] * x[i])
+		sum += poly8LBFGSFreeAbs(g[i+1] * x[i+1])
+		sum += poly8LBFGSFreeAbs(g[i+2] * x[i+2])
+		sum += poly8LBFGSFreeAbs(g[i+3] * x[i+3])
 	}
 	return 4 * poly8LBFGSFreeUnitRoundoff * sum
 }
@@ -1022,15 +1049,21 @@ func poly8LBFGSFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8LBFGSFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly8LBFGSFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly8LBFGSFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8LBFGSFreeAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8LBFGSFreeAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8LBFGSFreeAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8LBFGSFreeAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -1064,8 +1097,11 @@ func poly8LBFGSFreeGradientError(x *[8]float64, fx float64, g, e *[8]float64, di
 func poly8LBFGSFreeRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8LBFGSFreeDifferences) {
 	var h [8]float64
 	poly8LBFGSFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8LBFGSFreeUnitRoundoff * poly8LBFGSFreeAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8LBFGSFreeUnitRoundoff * poly8LBFGSFreeAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8LBFGSFreeUnitRoundoff * poly8LBFGSFreeAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8LBFGSFreeUnitRoundoff * poly8LBFGSFreeAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -1093,10 +1129,27 @@ func poly8LBFGSFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8LBFGSFr
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8LBFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8LBFGSFreeLarger(poly8LBFGSFreeAbs(fx), 1)
-	for i := range g {
-		w := poly8LBFGSFreeLarger(poly8LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8LBFGSFreeLarger(measure, (poly8LBFGSFreeAbs(g[i])+e[i])*w)
-		floor = poly8LBFGSFreeLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8LBFGSFreeLarger(poly8LBFGSFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8LBFGSFreeLarger(measure, (poly8LBFGSFreeAbs(g[i])+e[i])*w)
+			floor = poly8LBFGSFreeLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8LBFGSFreeLarger(poly8LBFGSFreeAbs(x[i+1]), 1) / scale
+			measure = poly8LBFGSFreeLarger(measure, (poly8LBFGSFreeAbs(g[i+1])+e[i+1])*w)
+			floor = poly8LBFGSFreeLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8LBFGSFreeLarger(poly8LBFGSFreeAbs(x[i+2]), 1) / scale
+			measure = poly8LBFGSFreeLarger(measure, (poly8LBFGSFreeAbs(g[i+2])+e[i+2])*w)
+			floor = poly8LBFGSFreeLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8LBFGSFreeLarger(poly8LBFGSFreeAbs(x[i+3]), 1) / scale
+			measure = poly8LBFGSFreeLarger(measure, (poly8LBFGSFreeAbs(g[i+3])+e[i+3])*w)
+			floor = poly8LBFGSFreeLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1106,8 +1159,17 @@ func poly8LBFGSFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, fl
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8LBFGSFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8LBFGSFreeDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8LBFGSFreeAbs(s[i]) <= tol*poly8LBFGSFreeStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8LBFGSFreeAbs(s[i+1]) <= tol*poly8LBFGSFreeStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8LBFGSFreeAbs(s[i+2]) <= tol*poly8LBFGSFreeStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8LBFGSFreeAbs(s[i+3]) <= tol*poly8LBFGSFreeStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -1159,9 +1221,24 @@ func (f *poly8LBFGSFreeStepFloor) at(x, d *[8]float64, diffs *poly8LBFGSFreeDiff
 // step test, min over i of tol·poly8LBFGSFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8LBFGSFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8LBFGSFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8LBFGSFreeStepScale(x[i], i, diffs) / poly8LBFGSFreeAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8LBFGSFreeStepScale(x[i+1], i+1, diffs) / poly8LBFGSFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8LBFGSFreeStepScale(x[i+2], i+2, diffs) / poly8LBFGSFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8LBFGSFreeStepScale(x[i+3], i+3, diffs) / poly8LBFGSFreeAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1309,8 +1386,17 @@ func poly8LBFGSFreeShrinkDirection(d, g *[8]float64) {
 // poly8LBFGSFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8LBFGSFreeMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8LBFGSFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8LBFGSFreeAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8LBFGSFreeAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8LBFGSFreeAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1319,8 +1405,11 @@ func poly8LBFGSFreeMaxAbs(x *[8]float64) float64 {
 
 // poly8LBFGSFreeScaleBy sets x = c·x.
 func poly8LBFGSFreeScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1385,8 +1474,17 @@ func (r *poly8LBFGSFreeRiseTrend) contradicts() bool {
 // poly8LBFGSFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8LBFGSFreeFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8LBFGSFreeAbs(xt[i]-x[i]-want) <= 0.01*poly8LBFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8LBFGSFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8LBFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8LBFGSFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8LBFGSFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8LBFGSFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8LBFGSFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1435,8 +1533,11 @@ func poly8LBFGSFreeTrialPoint(out, x *[8]float64, t float64, d *[8]float64, b *p
 
 // poly8LBFGSFreeMoveTo sets out = x + t·d.
 func poly8LBFGSFreeMoveTo(out, x *[8]float64, t float64, d *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = x[i] + t*d[i]
+		out[i+1] = x[i+1] + t*d[i+1]
+		out[i+2] = x[i+2] + t*d[i+2]
+		out[i+3] = x[i+3] + t*d[i+3]
 	}
 }
 
@@ -1502,8 +1603,11 @@ func poly8LBFGSFreeExpandTrial(previous, current *poly8LBFGSFreeLinePoint) float
 
 // poly8LBFGSFreeGradientChange sets out = a − b.
 func poly8LBFGSFreeGradientChange(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

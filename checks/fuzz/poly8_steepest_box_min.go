@@ -610,8 +610,11 @@ func (s *poly8SteepestBoxDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly8SteepestBoxNegate sets out = −x.
 func poly8SteepestBoxNegate(out, x *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = -x[i]
+		out[i+1] = -x[i+1]
+		out[i+2] = -x[i+2]
+		out[i+3] = -x[i+3]
 	}
 }
 
@@ -656,8 +659,11 @@ const (
 // poly8SteepestBoxEnterBox moves each xᵢ outside [lowerᵢ, upperᵢ] to the nearer bound,
 // the projection P(x) onto the box.
 func poly8SteepestBoxEnterBox(x *[8]float64, b *poly8SteepestBoxBox) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] = poly8SteepestBoxClampBetween(x[i], b.lower[i], b.upper[i])
+		x[i+1] = poly8SteepestBoxClampBetween(x[i+1], b.lower[i+1], b.upper[i+1])
+		x[i+2] = poly8SteepestBoxClampBetween(x[i+2], b.lower[i+2], b.upper[i+2])
+		x[i+3] = poly8SteepestBoxClampBetween(x[i+3], b.lower[i+3], b.upper[i+3])
 	}
 }
 
@@ -690,8 +696,17 @@ func poly8SteepestBoxValue(recv *Poly, x, g *[8]float64, diffs *poly8SteepestBox
 
 // poly8SteepestBoxFiniteVec reports whether every component of x is finite.
 func poly8SteepestBoxFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8SteepestBoxFinite(x[i]) {
+			return false
+		}
+		if !poly8SteepestBoxFinite(x[i+1]) {
+			return false
+		}
+		if !poly8SteepestBoxFinite(x[i+2]) {
+			return false
+		}
+		if !poly8SteepestBoxFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -745,15 +760,21 @@ func poly8SteepestBoxConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8SteepestBoxDerivative(recv, x, fx, g, diffs)
 	calls += poly8SteepestBoxDerivative(recv, x, fx, &doubled, &wide)
 	poly8SteepestBoxGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8SteepestBoxAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8SteepestBoxAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8SteepestBoxAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8SteepestBoxAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -761,8 +782,11 @@ func poly8SteepestBoxConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, e
 // poly8SteepestBoxGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly8SteepestBoxGradientError(x *[8]float64, fx float64, g, e *[8]float64, diffs *poly8SteepestBoxDifferences) {
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] = 0
+		e[i+1] = 0
+		e[i+2] = 0
+		e[i+3] = 0
 	}
 }
 
@@ -783,8 +807,11 @@ func poly8SteepestBoxAbs(v float64) float64 {
 func poly8SteepestBoxRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8SteepestBoxDifferences) {
 	var h [8]float64
 	poly8SteepestBoxDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8SteepestBoxUnitRoundoff * poly8SteepestBoxAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8SteepestBoxUnitRoundoff * poly8SteepestBoxAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8SteepestBoxUnitRoundoff * poly8SteepestBoxAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8SteepestBoxUnitRoundoff * poly8SteepestBoxAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -889,10 +916,27 @@ func poly8SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8SteepestBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8SteepestBoxLarger(poly8SteepestBoxAbs(fx), 1)
-	for i := range g {
-		w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i])+e[i])*w)
-		floor = poly8SteepestBoxLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i])+e[i])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i+1]), 1) / scale
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i+1])+e[i+1])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i+2]), 1) / scale
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i+2])+e[i+2])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i+3]), 1) / scale
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i+3])+e[i+3])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -902,8 +946,17 @@ func poly8SteepestBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8SteepestBoxStepWithin(s, x *[8]float64, tol float64, diffs *poly8SteepestBoxDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8SteepestBoxAbs(s[i]) <= tol*poly8SteepestBoxStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8SteepestBoxAbs(s[i+1]) <= tol*poly8SteepestBoxStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8SteepestBoxAbs(s[i+2]) <= tol*poly8SteepestBoxStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8SteepestBoxAbs(s[i+3]) <= tol*poly8SteepestBoxStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -926,9 +979,18 @@ func poly8SteepestBoxStepScale(xi float64, i int, diffs *poly8SteepestBoxDiffere
 //   - C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999,
 //     §5.5.3.
 func poly8SteepestBoxCurvaturePair(s, y, x *[8]float64, b *poly8SteepestBoxBox) {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if s[i] == 0 && (x[i] <= b.lower[i] || x[i] >= b.upper[i]) {
 			y[i] = 0
+		}
+		if s[i+1] == 0 && (x[i+1] <= b.lower[i+1] || x[i+1] >= b.upper[i+1]) {
+			y[i+1] = 0
+		}
+		if s[i+2] == 0 && (x[i+2] <= b.lower[i+2] || x[i+2] >= b.upper[i+2]) {
+			y[i+2] = 0
+		}
+		if s[i+3] == 0 && (x[i+3] <= b.lower[i+3] || x[i+3] >= b.upper[i+3]) {
+			y[i+3] = 0
 		}
 	}
 }
@@ -964,8 +1026,11 @@ func poly8SteepestBoxLearnCurvature(s, y *[8]float64, diffs *poly8SteepestBoxDif
 func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8]float64, diffs *poly8SteepestBoxDifferences) {
 	b := &diffs.bounds
 	var reach float64 // ‖x − P(x − g)‖∞
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		reach = poly8SteepestBoxLarger(reach, poly8SteepestBoxAbs(x[i]-poly8SteepestBoxClampBetween(x[i]-g[i], b.lower[i], b.upper[i])))
+		reach = poly8SteepestBoxLarger(reach, poly8SteepestBoxAbs(x[i+1]-poly8SteepestBoxClampBetween(x[i+1]-g[i+1], b.lower[i+1], b.upper[i+1])))
+		reach = poly8SteepestBoxLarger(reach, poly8SteepestBoxAbs(x[i+2]-poly8SteepestBoxClampBetween(x[i+2]-g[i+2], b.lower[i+2], b.upper[i+2])))
+		reach = poly8SteepestBoxLarger(reach, poly8SteepestBoxAbs(x[i+3]-poly8SteepestBoxClampBetween(x[i+3]-g[i+3], b.lower[i+3], b.upper[i+3])))
 	}
 	var free [8]float64
 	var active [8]bool
@@ -980,12 +1045,30 @@ func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8
 		}
 	}
 	poly8SteepestBoxSolveDirection(dir, &free, d, diffs)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if active[i] {
 			d[i] = -g[i]
 		}
 		if poly8SteepestBoxPushedAgainst(x[i], -d[i], b.lower[i], b.upper[i]) { // d would leave the box
 			d[i] = 0
+		}
+		if active[i+1] {
+			d[i+1] = -g[i+1]
+		}
+		if poly8SteepestBoxPushedAgainst(x[i+1], -d[i+1], b.lower[i+1], b.upper[i+1]) {
+			d[i+1] = 0
+		}
+		if active[i+2] {
+			d[i+2] = -g[i+2]
+		}
+		if poly8SteepestBoxPushedAgainst(x[i+2], -d[i+2], b.lower[i+2], b.upper[i+2]) {
+			d[i+2] = 0
+		}
+		if active[i+3] {
+			d[i+3] = -g[i+3]
+		}
+		if poly8SteepestBoxPushedAgainst(x[i+3], -d[i+3], b.lower[i+3], b.upper[i+3]) {
+			d[i+3] = 0
 		}
 	}
 }
@@ -998,8 +1081,11 @@ func poly8SteepestBoxSolveDirection(dir *poly8SteepestBoxDirection, g, d *[8]flo
 // poly8SteepestBoxDot returns aᵀb.
 func poly8SteepestBoxDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
@@ -1028,9 +1114,24 @@ func (f *poly8SteepestBoxStepFloor) at(x, d *[8]float64, diffs *poly8SteepestBox
 // step test, min over i of tol·poly8SteepestBoxStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8SteepestBoxTinyStep(x, d *[8]float64, tol float64, diffs *poly8SteepestBoxDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8SteepestBoxStepScale(x[i], i, diffs) / poly8SteepestBoxAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8SteepestBoxStepScale(x[i+1], i+1, diffs) / poly8SteepestBoxAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8SteepestBoxStepScale(x[i+2], i+2, diffs) / poly8SteepestBoxAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8SteepestBoxStepScale(x[i+3], i+3, diffs) / poly8SteepestBoxAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1112,8 +1213,17 @@ func poly8SteepestBoxShrinkDirection(d, g *[8]float64) {
 // poly8SteepestBoxMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8SteepestBoxMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8SteepestBoxAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8SteepestBoxAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8SteepestBoxAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8SteepestBoxAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1122,8 +1232,11 @@ func poly8SteepestBoxMaxAbs(x *[8]float64) float64 {
 
 // poly8SteepestBoxScaleBy sets x = c·x.
 func poly8SteepestBoxScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1181,8 +1294,17 @@ func (r *poly8SteepestBoxRiseTrend) contradicts() bool {
 // poly8SteepestBoxFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8SteepestBoxFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8SteepestBoxAbs(xt[i]-x[i]-want) <= 0.01*poly8SteepestBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8SteepestBoxAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8SteepestBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8SteepestBoxAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8SteepestBoxAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8SteepestBoxAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8SteepestBoxAbs(want)) {
 			return false
 		}
 	}
@@ -1242,8 +1364,11 @@ func poly8SteepestBoxTrialPoint(out, x *[8]float64, t float64, d *[8]float64, b 
 // stands in for armijoDecrease when the spec has bounds.
 func poly8SteepestBoxAcceptable(fx, ft, t, slope float64, x, xt, g *[8]float64) bool {
 	var change float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		change += g[i] * (xt[i] - x[i])
+		change += g[i+1] * (xt[i+1] - x[i+1])
+		change += g[i+2] * (xt[i+2] - x[i+2])
+		change += g[i+3] * (xt[i+3] - x[i+3])
 	}
 	return change < 0 && ft <= fx+poly8SteepestBoxStepDecrease*change // Bertsekas 1976: sufficient decrease along the arc
 }
@@ -1255,8 +1380,11 @@ func poly8SteepestBoxBacktrackTrial(fx, slope, t, ft, previous, fPrevious float6
 
 // poly8SteepestBoxDifference sets out = a − b.
 func poly8SteepestBoxDifference(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

@@ -600,8 +600,11 @@ func (s *poly8SteepestFreeDirection) firstTrial(t, slope, now float64) float64 {
 
 // poly8SteepestFreeNegate sets out = −x.
 func poly8SteepestFreeNegate(out, x *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = -x[i]
+		out[i+1] = -x[i+1]
+		out[i+2] = -x[i+2]
+		out[i+3] = -x[i+3]
 	}
 }
 
@@ -660,8 +663,17 @@ func poly8SteepestFreeValue(recv *Poly, x, g *[8]float64, diffs *poly8SteepestFr
 
 // poly8SteepestFreeFiniteVec reports whether every component of x is finite.
 func poly8SteepestFreeFiniteVec(x *[8]float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if !poly8SteepestFreeFinite(x[i]) {
+			return false
+		}
+		if !poly8SteepestFreeFinite(x[i+1]) {
+			return false
+		}
+		if !poly8SteepestFreeFinite(x[i+2]) {
+			return false
+		}
+		if !poly8SteepestFreeFinite(x[i+3]) {
 			return false
 		}
 	}
@@ -715,15 +727,21 @@ func poly8SteepestFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
+	for i := 0; i < 8; i += 4 {
 		wide.ratio[i] *= 2
+		wide.ratio[i+1] *= 2
+		wide.ratio[i+2] *= 2
+		wide.ratio[i+3] *= 2
 	}
 	var doubled [8]float64
 	calls += poly8SteepestFreeDerivative(recv, x, fx, g, diffs)
 	calls += poly8SteepestFreeDerivative(recv, x, fx, &doubled, &wide)
 	poly8SteepestFreeGradientError(x, fx, g, e, diffs)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 3 * poly8SteepestFreeAbs(g[i]-doubled[i])
+		e[i+1] += 3 * poly8SteepestFreeAbs(g[i+1]-doubled[i+1])
+		e[i+2] += 3 * poly8SteepestFreeAbs(g[i+2]-doubled[i+2])
+		e[i+3] += 3 * poly8SteepestFreeAbs(g[i+3]-doubled[i+3])
 	}
 	return calls, true
 }
@@ -731,8 +749,11 @@ func poly8SteepestFreeConfirmGradient(recv *Poly, x *[8]float64, fx float64, g, 
 // poly8SteepestFreeGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func poly8SteepestFreeGradientError(x *[8]float64, fx float64, g, e *[8]float64, diffs *poly8SteepestFreeDifferences) {
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] = 0
+		e[i+1] = 0
+		e[i+2] = 0
+		e[i+3] = 0
 	}
 }
 
@@ -753,8 +774,11 @@ func poly8SteepestFreeAbs(v float64) float64 {
 func poly8SteepestFreeRoundingFloor(recv *Poly, x, g, e *[8]float64, diffs *poly8SteepestFreeDifferences) {
 	var h [8]float64
 	poly8SteepestFreeDiagonalCurvature(recv, x, g, diffs, &h)
-	for i := range e {
+	for i := 0; i < 8; i += 4 {
 		e[i] += 4 * poly8SteepestFreeUnitRoundoff * poly8SteepestFreeAbs(x[i]) * h[i]
+		e[i+1] += 4 * poly8SteepestFreeUnitRoundoff * poly8SteepestFreeAbs(x[i+1]) * h[i+1]
+		e[i+2] += 4 * poly8SteepestFreeUnitRoundoff * poly8SteepestFreeAbs(x[i+2]) * h[i+2]
+		e[i+3] += 4 * poly8SteepestFreeUnitRoundoff * poly8SteepestFreeAbs(x[i+3]) * h[i+3]
 	}
 }
 
@@ -856,10 +880,27 @@ func poly8SteepestFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8Stee
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8SteepestFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
 	scale := poly8SteepestFreeLarger(poly8SteepestFreeAbs(fx), 1)
-	for i := range g {
-		w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i])+e[i])*w)
-		floor = poly8SteepestFreeLarger(floor, e[i]*w)
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i])+e[i])*w)
+			floor = poly8SteepestFreeLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i+1]), 1) / scale
+			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i+1])+e[i+1])*w)
+			floor = poly8SteepestFreeLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i+2]), 1) / scale
+			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i+2])+e[i+2])*w)
+			floor = poly8SteepestFreeLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i+3]), 1) / scale
+			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i+3])+e[i+3])*w)
+			floor = poly8SteepestFreeLarger(floor, e[i+3]*w)
+		}
 	}
 	return measure, floor
 }
@@ -869,8 +910,17 @@ func poly8SteepestFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func poly8SteepestFreeStepWithin(s, x *[8]float64, tol float64, diffs *poly8SteepestFreeDifferences) bool {
-	for i := range s {
+	for i := 0; i < 8; i += 4 {
 		if !(poly8SteepestFreeAbs(s[i]) <= tol*poly8SteepestFreeStepScale(x[i], i, diffs)) {
+			return false
+		}
+		if !(poly8SteepestFreeAbs(s[i+1]) <= tol*poly8SteepestFreeStepScale(x[i+1], i+1, diffs)) {
+			return false
+		}
+		if !(poly8SteepestFreeAbs(s[i+2]) <= tol*poly8SteepestFreeStepScale(x[i+2], i+2, diffs)) {
+			return false
+		}
+		if !(poly8SteepestFreeAbs(s[i+3]) <= tol*poly8SteepestFreeStepScale(x[i+3], i+3, diffs)) {
 			return false
 		}
 	}
@@ -901,8 +951,11 @@ func poly8SteepestFreeSolveDirection(dir *poly8SteepestFreeDirection, g, d *[8]f
 // poly8SteepestFreeDot returns aᵀb.
 func poly8SteepestFreeDot(a, b *[8]float64) float64 {
 	var s float64
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		s += a[i] * b[i]
+		s += a[i+1] * b[i+1]
+		s += a[i+2] * b[i+2]
+		s += a[i+3] * b[i+3]
 	}
 	return s
 }
@@ -931,9 +984,24 @@ func (f *poly8SteepestFreeStepFloor) at(x, d *[8]float64, diffs *poly8SteepestFr
 // step test, min over i of tol·poly8SteepestFreeStepScale(x_i)/|d_i|, or −1 when d is zero.
 func poly8SteepestFreeTinyStep(x, d *[8]float64, tol float64, diffs *poly8SteepestFreeDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if d[i] != 0 {
 			if t := tol * poly8SteepestFreeStepScale(x[i], i, diffs) / poly8SteepestFreeAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+1] != 0 {
+			if t := tol * poly8SteepestFreeStepScale(x[i+1], i+1, diffs) / poly8SteepestFreeAbs(d[i+1]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+2] != 0 {
+			if t := tol * poly8SteepestFreeStepScale(x[i+2], i+2, diffs) / poly8SteepestFreeAbs(d[i+2]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[i+3] != 0 {
+			if t := tol * poly8SteepestFreeStepScale(x[i+3], i+3, diffs) / poly8SteepestFreeAbs(d[i+3]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1015,8 +1083,17 @@ func poly8SteepestFreeShrinkDirection(d, g *[8]float64) {
 // poly8SteepestFreeMaxAbs returns the largest |x_i|, the infinity norm.
 func poly8SteepestFreeMaxAbs(x *[8]float64) float64 {
 	var m float64
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if a := poly8SteepestFreeAbs(x[i]); a > m || a != a {
+			m = a
+		}
+		if a := poly8SteepestFreeAbs(x[i+1]); a > m || a != a {
+			m = a
+		}
+		if a := poly8SteepestFreeAbs(x[i+2]); a > m || a != a {
+			m = a
+		}
+		if a := poly8SteepestFreeAbs(x[i+3]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1025,8 +1102,11 @@ func poly8SteepestFreeMaxAbs(x *[8]float64) float64 {
 
 // poly8SteepestFreeScaleBy sets x = c·x.
 func poly8SteepestFreeScaleBy(x *[8]float64, c float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		x[i] *= c
+		x[i+1] *= c
+		x[i+2] *= c
+		x[i+3] *= c
 	}
 }
 
@@ -1084,8 +1164,17 @@ func (r *poly8SteepestFreeRiseTrend) contradicts() bool {
 // poly8SteepestFreeFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func poly8SteepestFreeFaithfulStep(x, xt, d *[8]float64, t float64) bool {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		if want := t * d[i]; !(poly8SteepestFreeAbs(xt[i]-x[i]-want) <= 0.01*poly8SteepestFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+1]; !(poly8SteepestFreeAbs(xt[i+1]-x[i+1]-want) <= 0.01*poly8SteepestFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+2]; !(poly8SteepestFreeAbs(xt[i+2]-x[i+2]-want) <= 0.01*poly8SteepestFreeAbs(want)) {
+			return false
+		}
+		if want := t * d[i+3]; !(poly8SteepestFreeAbs(xt[i+3]-x[i+3]-want) <= 0.01*poly8SteepestFreeAbs(want)) {
 			return false
 		}
 	}
@@ -1118,8 +1207,11 @@ func poly8SteepestFreeTrialPoint(out, x *[8]float64, t float64, d *[8]float64, b
 
 // poly8SteepestFreeMoveTo sets out = x + t·d.
 func poly8SteepestFreeMoveTo(out, x *[8]float64, t float64, d *[8]float64) {
-	for i := range x {
+	for i := 0; i < 8; i += 4 {
 		out[i] = x[i] + t*d[i]
+		out[i+1] = x[i+1] + t*d[i+1]
+		out[i+2] = x[i+2] + t*d[i+2]
+		out[i+3] = x[i+3] + t*d[i+3]
 	}
 }
 
@@ -1145,8 +1237,11 @@ func poly8SteepestFreeBacktrackTrial(fx, slope, t, ft, previous, fPrevious float
 
 // poly8SteepestFreeDifference sets out = a − b.
 func poly8SteepestFreeDifference(out, a, b *[8]float64) {
-	for i := range a {
+	for i := 0; i < 8; i += 4 {
 		out[i] = a[i] - b[i]
+		out[i+1] = a[i+1] - b[i+1]
+		out[i+2] = a[i+2] - b[i+2]
+		out[i+3] = a[i+3] - b[i+3]
 	}
 }
 

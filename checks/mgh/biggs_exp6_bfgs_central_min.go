@@ -586,8 +586,15 @@ type biggsEXP6BFGSCentralDirection struct {
 
 func (s *biggsEXP6BFGSCentralDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][4] = 0
+			s.h[i][5] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +602,15 @@ func (s *biggsEXP6BFGSCentralDirection) reset() {
 }
 
 func (s *biggsEXP6BFGSCentralDirection) compute(g, d *[6]float64) {
-	for i := range s.h {
-		d[i] = -biggsEXP6BFGSCentralDot(&s.h[i], g)
+	{
+		for i := 0; i < 4; i += 4 {
+			d[i] = -biggsEXP6BFGSCentralDot(&s.h[i], g)
+			d[i+1] = -biggsEXP6BFGSCentralDot(&s.h[i+1], g)
+			d[i+2] = -biggsEXP6BFGSCentralDot(&s.h[i+2], g)
+			d[i+3] = -biggsEXP6BFGSCentralDot(&s.h[i+3], g)
+		}
+		d[4] = -biggsEXP6BFGSCentralDot(&s.h[4], g)
+		d[5] = -biggsEXP6BFGSCentralDot(&s.h[5], g)
 	}
 }
 
@@ -607,8 +621,15 @@ func (s *biggsEXP6BFGSCentralDirection) update(step, change *[6]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / biggsEXP6BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 4; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[4][4] = gamma
+			s.h[5][5] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +637,15 @@ func (s *biggsEXP6BFGSCentralDirection) update(step, change *[6]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [6]float64
-	for i := range s.h {
-		hy[i] = biggsEXP6BFGSCentralDot(&s.h[i], change)
+	{
+		for i := 0; i < 4; i += 4 {
+			hy[i] = biggsEXP6BFGSCentralDot(&s.h[i], change)
+			hy[i+1] = biggsEXP6BFGSCentralDot(&s.h[i+1], change)
+			hy[i+2] = biggsEXP6BFGSCentralDot(&s.h[i+2], change)
+			hy[i+3] = biggsEXP6BFGSCentralDot(&s.h[i+3], change)
+		}
+		hy[4] = biggsEXP6BFGSCentralDot(&s.h[4], change)
+		hy[5] = biggsEXP6BFGSCentralDot(&s.h[5], change)
 	}
 	outer := (rho*rho*biggsEXP6BFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +653,15 @@ func (s *biggsEXP6BFGSCentralDirection) update(step, change *[6]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][4] += a*step[4] - b*hy[4]
+			s.h[i][5] += a*step[5] - b*hy[5]
 		}
 	}
 }
@@ -643,8 +678,15 @@ func (s *biggsEXP6BFGSCentralDirection) firstTrial(t, slope, now float64) float6
 // biggsEXP6BFGSCentralDot returns aᵀb.
 func biggsEXP6BFGSCentralDot(a, b *[6]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
+		s += a[5] * b[5]
 	}
 	return s
 }
@@ -699,8 +741,25 @@ func biggsEXP6BFGSCentralFinite(v float64) bool {
 
 // biggsEXP6BFGSCentralFiniteVec reports whether every component of x is finite.
 func biggsEXP6BFGSCentralFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6BFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !biggsEXP6BFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !biggsEXP6BFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !biggsEXP6BFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !biggsEXP6BFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !biggsEXP6BFGSCentralFinite(x[4]) {
+			return false
+		}
+		if !biggsEXP6BFGSCentralFinite(x[5]) {
 			return false
 		}
 	}
@@ -875,8 +934,15 @@ func biggsEXP6BFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func biggsEXP6BFGSCentralNoiseLevel(x *[6]float64, fx float64, g *[6]float64) float64 {
 	sum := biggsEXP6BFGSCentralAbs(fx)
-	for i := range x {
-		sum += biggsEXP6BFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			sum += biggsEXP6BFGSCentralAbs(g[i] * x[i])
+			sum += biggsEXP6BFGSCentralAbs(g[i+1] * x[i+1])
+			sum += biggsEXP6BFGSCentralAbs(g[i+2] * x[i+2])
+			sum += biggsEXP6BFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += biggsEXP6BFGSCentralAbs(g[4] * x[4])
+		sum += biggsEXP6BFGSCentralAbs(g[5] * x[5])
 	}
 	return 4 * biggsEXP6BFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1069,29 @@ func biggsEXP6BFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
+		wide.ratio[5] *= 2
 	}
 	var doubled [6]float64
 	calls += biggsEXP6BFGSCentralDerivative(x, fx, g, diffs)
 	calls += biggsEXP6BFGSCentralDerivative(x, fx, &doubled, &wide)
 	biggsEXP6BFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * biggsEXP6BFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * biggsEXP6BFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * biggsEXP6BFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * biggsEXP6BFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * biggsEXP6BFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * biggsEXP6BFGSCentralAbs(g[4]-doubled[4])
+		e[5] += 3 * biggsEXP6BFGSCentralAbs(g[5]-doubled[5])
 	}
 	return calls, true
 }
@@ -1045,8 +1125,15 @@ func biggsEXP6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float
 func biggsEXP6BFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
 	var h [6]float64
 	biggsEXP6BFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[4]) * h[4]
+		e[5] += 4 * biggsEXP6BFGSCentralUnitRoundoff * biggsEXP6BFGSCentralAbs(x[5]) * h[5]
 	}
 }
 
@@ -1074,10 +1161,39 @@ func biggsEXP6BFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *biggsE
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
 	scale := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i])+e[i])*w)
-		floor = biggsEXP6BFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i])+e[i])*w)
+				floor = biggsEXP6BFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i+1]), 1) / scale
+				measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = biggsEXP6BFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i+2]), 1) / scale
+				measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = biggsEXP6BFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i+3]), 1) / scale
+				measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = biggsEXP6BFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[4]), 1) / scale
+			measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[4])+e[4])*w)
+			floor = biggsEXP6BFGSCentralLarger(floor, e[4]*w)
+		}
+		{
+			w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[5]), 1) / scale
+			measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[5])+e[5])*w)
+			floor = biggsEXP6BFGSCentralLarger(floor, e[5]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1203,25 @@ func biggsEXP6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6BFGSCentralDifferences) bool {
-	for i := range s {
-		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*biggsEXP6BFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*biggsEXP6BFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(biggsEXP6BFGSCentralAbs(s[i+1]) <= tol*biggsEXP6BFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(biggsEXP6BFGSCentralAbs(s[i+2]) <= tol*biggsEXP6BFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(biggsEXP6BFGSCentralAbs(s[i+3]) <= tol*biggsEXP6BFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(biggsEXP6BFGSCentralAbs(s[4]) <= tol*biggsEXP6BFGSCentralStepScale(x[4], 4, diffs)) {
+			return false
+		}
+		if !(biggsEXP6BFGSCentralAbs(s[5]) <= tol*biggsEXP6BFGSCentralStepScale(x[5], 5, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1273,36 @@ func (f *biggsEXP6BFGSCentralStepFloor) at(x, d *[6]float64, diffs *biggsEXP6BFG
 // step test, min over i of tol·biggsEXP6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * biggsEXP6BFGSCentralStepScale(x[i], i, diffs) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * biggsEXP6BFGSCentralStepScale(x[i], i, diffs) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * biggsEXP6BFGSCentralStepScale(x[i+1], i+1, diffs) / biggsEXP6BFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * biggsEXP6BFGSCentralStepScale(x[i+2], i+2, diffs) / biggsEXP6BFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * biggsEXP6BFGSCentralStepScale(x[i+3], i+3, diffs) / biggsEXP6BFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * biggsEXP6BFGSCentralStepScale(x[4], 4, diffs) / biggsEXP6BFGSCentralAbs(d[4]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[5] != 0 {
+			if t := tol * biggsEXP6BFGSCentralStepScale(x[5], 5, diffs) / biggsEXP6BFGSCentralAbs(d[5]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1450,25 @@ func biggsEXP6BFGSCentralShrinkDirection(d, g *[6]float64) {
 // biggsEXP6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func biggsEXP6BFGSCentralMaxAbs(x *[6]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := biggsEXP6BFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := biggsEXP6BFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6BFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6BFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6BFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := biggsEXP6BFGSCentralAbs(x[4]); a > m || a != a {
+			m = a
+		}
+		if a := biggsEXP6BFGSCentralAbs(x[5]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1477,15 @@ func biggsEXP6BFGSCentralMaxAbs(x *[6]float64) float64 {
 
 // biggsEXP6BFGSCentralScaleBy sets x = c·x.
 func biggsEXP6BFGSCentralScaleBy(x *[6]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
+		x[5] *= c
 	}
 }
 
@@ -1366,8 +1550,25 @@ func (r *biggsEXP6BFGSCentralRiseTrend) contradicts() bool {
 // biggsEXP6BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func biggsEXP6BFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(biggsEXP6BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(biggsEXP6BFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(biggsEXP6BFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(biggsEXP6BFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(biggsEXP6BFGSCentralAbs(xt[4]-x[4]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[5]; !(biggsEXP6BFGSCentralAbs(xt[5]-x[5]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1617,15 @@ func biggsEXP6BFGSCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float64
 
 // biggsEXP6BFGSCentralMoveTo sets out = x + t·d.
 func biggsEXP6BFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
+		out[5] = x[5] + t*d[5]
 	}
 }
 
@@ -1483,8 +1691,15 @@ func biggsEXP6BFGSCentralExpandTrial(previous, current *biggsEXP6BFGSCentralLine
 
 // biggsEXP6BFGSCentralGradientChange sets out = a − b.
 func biggsEXP6BFGSCentralGradientChange(out, a, b *[6]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
+		out[5] = a[5] - b[5]
 	}
 }
 

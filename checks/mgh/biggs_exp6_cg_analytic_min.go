@@ -618,8 +618,15 @@ type biggsEXP6CGAnalyticDirection struct {
 func (s *biggsEXP6CGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 4; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[4] = 1
+		s.curvature[5] = 1
 	}
 }
 
@@ -627,16 +634,30 @@ func (s *biggsEXP6CGAnalyticDirection) compute(g, d *[6]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 4; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[4] /= s.curvature[4]
+			z[5] /= s.curvature[5]
 		}
 	}
 	gz, zy := biggsEXP6CGAnalyticDot(g, &z), biggsEXP6CGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && biggsEXP6CGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = biggsEXP6CGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 4; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[4] = -z[4] + beta*s.previous[4]
+		d[5] = -z[5] + beta*s.previous[5]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +687,15 @@ func (s *biggsEXP6CGAnalyticDirection) update(step, change *[6]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 4; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[4] = gamma
+			s.curvature[5] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +730,15 @@ func (s *biggsEXP6CGAnalyticDirection) firstTrial(t, slope, now float64) float64
 // biggsEXP6CGAnalyticDot returns aᵀb.
 func biggsEXP6CGAnalyticDot(a, b *[6]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
+		s += a[5] * b[5]
 	}
 	return s
 }
@@ -782,8 +817,25 @@ func biggsEXP6CGAnalyticValue(x, g *[6]float64, diffs *biggsEXP6CGAnalyticDiffer
 
 // biggsEXP6CGAnalyticFiniteVec reports whether every component of x is finite.
 func biggsEXP6CGAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6CGAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !biggsEXP6CGAnalyticFinite(x[i]) {
+				return false
+			}
+			if !biggsEXP6CGAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !biggsEXP6CGAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !biggsEXP6CGAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !biggsEXP6CGAnalyticFinite(x[4]) {
+			return false
+		}
+		if !biggsEXP6CGAnalyticFinite(x[5]) {
 			return false
 		}
 	}
@@ -837,15 +889,29 @@ func biggsEXP6CGAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
+		wide.ratio[5] *= 2
 	}
 	var doubled [6]float64
 	calls += biggsEXP6CGAnalyticDerivative(x, fx, g, diffs)
 	calls += biggsEXP6CGAnalyticDerivative(x, fx, &doubled, &wide)
 	biggsEXP6CGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * biggsEXP6CGAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * biggsEXP6CGAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * biggsEXP6CGAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * biggsEXP6CGAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * biggsEXP6CGAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * biggsEXP6CGAnalyticAbs(g[4]-doubled[4])
+		e[5] += 3 * biggsEXP6CGAnalyticAbs(g[5]-doubled[5])
 	}
 	return calls, true
 }
@@ -853,8 +919,15 @@ func biggsEXP6CGAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 // biggsEXP6CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func biggsEXP6CGAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
+		e[5] = 0
 	}
 }
 
@@ -867,8 +940,15 @@ func biggsEXP6CGAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float6
 func biggsEXP6CGAnalyticRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
 	var h [6]float64
 	biggsEXP6CGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[4]) * h[4]
+		e[5] += 4 * biggsEXP6CGAnalyticUnitRoundoff * biggsEXP6CGAnalyticAbs(x[5]) * h[5]
 	}
 }
 
@@ -960,10 +1040,39 @@ func biggsEXP6CGAnalyticStationarity(g, e, x *[6]float64, fx float64, b *biggsEX
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
 	scale := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i])+e[i])*w)
-		floor = biggsEXP6CGAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i])+e[i])*w)
+				floor = biggsEXP6CGAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i+1]), 1) / scale
+				measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = biggsEXP6CGAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i+2]), 1) / scale
+				measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = biggsEXP6CGAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i+3]), 1) / scale
+				measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = biggsEXP6CGAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[4]), 1) / scale
+			measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[4])+e[4])*w)
+			floor = biggsEXP6CGAnalyticLarger(floor, e[4]*w)
+		}
+		{
+			w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[5]), 1) / scale
+			measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[5])+e[5])*w)
+			floor = biggsEXP6CGAnalyticLarger(floor, e[5]*w)
+		}
 	}
 	return measure, floor
 }
@@ -973,8 +1082,25 @@ func biggsEXP6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6CGAnalyticDifferences) bool {
-	for i := range s {
-		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*biggsEXP6CGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*biggsEXP6CGAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(biggsEXP6CGAnalyticAbs(s[i+1]) <= tol*biggsEXP6CGAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(biggsEXP6CGAnalyticAbs(s[i+2]) <= tol*biggsEXP6CGAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(biggsEXP6CGAnalyticAbs(s[i+3]) <= tol*biggsEXP6CGAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(biggsEXP6CGAnalyticAbs(s[4]) <= tol*biggsEXP6CGAnalyticStepScale(x[4], 4, diffs)) {
+			return false
+		}
+		if !(biggsEXP6CGAnalyticAbs(s[5]) <= tol*biggsEXP6CGAnalyticStepScale(x[5], 5, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1152,36 @@ func (f *biggsEXP6CGAnalyticStepFloor) at(x, d *[6]float64, diffs *biggsEXP6CGAn
 // step test, min over i of tol·biggsEXP6CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * biggsEXP6CGAnalyticStepScale(x[i], i, diffs) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * biggsEXP6CGAnalyticStepScale(x[i], i, diffs) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * biggsEXP6CGAnalyticStepScale(x[i+1], i+1, diffs) / biggsEXP6CGAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * biggsEXP6CGAnalyticStepScale(x[i+2], i+2, diffs) / biggsEXP6CGAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * biggsEXP6CGAnalyticStepScale(x[i+3], i+3, diffs) / biggsEXP6CGAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * biggsEXP6CGAnalyticStepScale(x[4], 4, diffs) / biggsEXP6CGAnalyticAbs(d[4]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[5] != 0 {
+			if t := tol * biggsEXP6CGAnalyticStepScale(x[5], 5, diffs) / biggsEXP6CGAnalyticAbs(d[5]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1329,25 @@ func biggsEXP6CGAnalyticShrinkDirection(d, g *[6]float64) {
 // biggsEXP6CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func biggsEXP6CGAnalyticMaxAbs(x *[6]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := biggsEXP6CGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := biggsEXP6CGAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6CGAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6CGAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6CGAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := biggsEXP6CGAnalyticAbs(x[4]); a > m || a != a {
+			m = a
+		}
+		if a := biggsEXP6CGAnalyticAbs(x[5]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1356,15 @@ func biggsEXP6CGAnalyticMaxAbs(x *[6]float64) float64 {
 
 // biggsEXP6CGAnalyticScaleBy sets x = c·x.
 func biggsEXP6CGAnalyticScaleBy(x *[6]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
+		x[5] *= c
 	}
 }
 
@@ -1252,8 +1429,25 @@ func (r *biggsEXP6CGAnalyticRiseTrend) contradicts() bool {
 // biggsEXP6CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func biggsEXP6CGAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(biggsEXP6CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(biggsEXP6CGAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(biggsEXP6CGAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(biggsEXP6CGAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(biggsEXP6CGAnalyticAbs(xt[4]-x[4]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[5]; !(biggsEXP6CGAnalyticAbs(xt[5]-x[5]-want) <= 0.01*biggsEXP6CGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1496,15 @@ func biggsEXP6CGAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64,
 
 // biggsEXP6CGAnalyticMoveTo sets out = x + t·d.
 func biggsEXP6CGAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
+		out[5] = x[5] + t*d[5]
 	}
 }
 
@@ -1369,8 +1570,15 @@ func biggsEXP6CGAnalyticExpandTrial(previous, current *biggsEXP6CGAnalyticLinePo
 
 // biggsEXP6CGAnalyticGradientChange sets out = a − b.
 func biggsEXP6CGAnalyticGradientChange(out, a, b *[6]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
+		out[5] = a[5] - b[5]
 	}
 }
 

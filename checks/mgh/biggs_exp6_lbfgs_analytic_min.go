@@ -602,8 +602,15 @@ func (s *biggsEXP6LBFGSAnalyticDirection) compute(g, d *[6]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*biggsEXP6LBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[4] -= a * y[4]
+			q[5] -= a * y[5]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +618,15 @@ func (s *biggsEXP6LBFGSAnalyticDirection) compute(g, d *[6]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[4] *= s.gamma
+			q[5] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +637,15 @@ func (s *biggsEXP6LBFGSAnalyticDirection) compute(g, d *[6]float64) {
 		}
 		beta := s.rho[k] * biggsEXP6LBFGSAnalyticDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[4] += step[4] * c
+			q[5] += step[5] * c
 		}
 	}
 	biggsEXP6LBFGSAnalyticNegate(d, &q)
@@ -661,16 +682,30 @@ func (s *biggsEXP6LBFGSAnalyticDirection) firstTrial(t, slope, now float64) floa
 // biggsEXP6LBFGSAnalyticDot returns aᵀb.
 func biggsEXP6LBFGSAnalyticDot(a, b *[6]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
+		s += a[5] * b[5]
 	}
 	return s
 }
 
 // biggsEXP6LBFGSAnalyticNegate sets out = −x.
 func biggsEXP6LBFGSAnalyticNegate(out, x *[6]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
+		out[5] = -x[5]
 	}
 }
 
@@ -718,8 +753,25 @@ func biggsEXP6LBFGSAnalyticFinite(v float64) bool {
 
 // biggsEXP6LBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func biggsEXP6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6LBFGSAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !biggsEXP6LBFGSAnalyticFinite(x[i]) {
+				return false
+			}
+			if !biggsEXP6LBFGSAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !biggsEXP6LBFGSAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !biggsEXP6LBFGSAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !biggsEXP6LBFGSAnalyticFinite(x[4]) {
+			return false
+		}
+		if !biggsEXP6LBFGSAnalyticFinite(x[5]) {
 			return false
 		}
 	}
@@ -773,15 +825,29 @@ func biggsEXP6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]f
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
+		wide.ratio[5] *= 2
 	}
 	var doubled [6]float64
 	calls += biggsEXP6LBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += biggsEXP6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	biggsEXP6LBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * biggsEXP6LBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * biggsEXP6LBFGSAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * biggsEXP6LBFGSAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * biggsEXP6LBFGSAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * biggsEXP6LBFGSAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * biggsEXP6LBFGSAnalyticAbs(g[4]-doubled[4])
+		e[5] += 3 * biggsEXP6LBFGSAnalyticAbs(g[5]-doubled[5])
 	}
 	return calls, true
 }
@@ -789,8 +855,15 @@ func biggsEXP6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]f
 // biggsEXP6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func biggsEXP6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
+		e[5] = 0
 	}
 }
 
@@ -811,8 +884,15 @@ func biggsEXP6LBFGSAnalyticAbs(v float64) float64 {
 func biggsEXP6LBFGSAnalyticRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
 	var h [6]float64
 	biggsEXP6LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[4]) * h[4]
+		e[5] += 4 * biggsEXP6LBFGSAnalyticUnitRoundoff * biggsEXP6LBFGSAnalyticAbs(x[5]) * h[5]
 	}
 }
 
@@ -914,10 +994,39 @@ func biggsEXP6LBFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *bigg
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
 	scale := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i])+e[i])*w)
+				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i+1]), 1) / scale
+				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i+2]), 1) / scale
+				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i+3]), 1) / scale
+				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[4]), 1) / scale
+			measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[4])+e[4])*w)
+			floor = biggsEXP6LBFGSAnalyticLarger(floor, e[4]*w)
+		}
+		{
+			w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[5]), 1) / scale
+			measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[5])+e[5])*w)
+			floor = biggsEXP6LBFGSAnalyticLarger(floor, e[5]*w)
+		}
 	}
 	return measure, floor
 }
@@ -927,8 +1036,25 @@ func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (mea
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6LBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(biggsEXP6LBFGSAnalyticAbs(s[i+1]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(biggsEXP6LBFGSAnalyticAbs(s[i+2]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(biggsEXP6LBFGSAnalyticAbs(s[i+3]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(biggsEXP6LBFGSAnalyticAbs(s[4]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[4], 4, diffs)) {
+			return false
+		}
+		if !(biggsEXP6LBFGSAnalyticAbs(s[5]) <= tol*biggsEXP6LBFGSAnalyticStepScale(x[5], 5, diffs)) {
 			return false
 		}
 	}
@@ -981,9 +1107,36 @@ func (f *biggsEXP6LBFGSAnalyticStepFloor) at(x, d *[6]float64, diffs *biggsEXP6L
 // step test, min over i of tol·biggsEXP6LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i], i, diffs) / biggsEXP6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i], i, diffs) / biggsEXP6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i+1], i+1, diffs) / biggsEXP6LBFGSAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i+2], i+2, diffs) / biggsEXP6LBFGSAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[i+3], i+3, diffs) / biggsEXP6LBFGSAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[4], 4, diffs) / biggsEXP6LBFGSAnalyticAbs(d[4]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[5] != 0 {
+			if t := tol * biggsEXP6LBFGSAnalyticStepScale(x[5], 5, diffs) / biggsEXP6LBFGSAnalyticAbs(d[5]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1131,8 +1284,25 @@ func biggsEXP6LBFGSAnalyticShrinkDirection(d, g *[6]float64) {
 // biggsEXP6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func biggsEXP6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := biggsEXP6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := biggsEXP6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6LBFGSAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6LBFGSAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6LBFGSAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := biggsEXP6LBFGSAnalyticAbs(x[4]); a > m || a != a {
+			m = a
+		}
+		if a := biggsEXP6LBFGSAnalyticAbs(x[5]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1141,8 +1311,15 @@ func biggsEXP6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
 
 // biggsEXP6LBFGSAnalyticScaleBy sets x = c·x.
 func biggsEXP6LBFGSAnalyticScaleBy(x *[6]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
+		x[5] *= c
 	}
 }
 
@@ -1207,8 +1384,25 @@ func (r *biggsEXP6LBFGSAnalyticRiseTrend) contradicts() bool {
 // biggsEXP6LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func biggsEXP6LBFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(biggsEXP6LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(biggsEXP6LBFGSAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(biggsEXP6LBFGSAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(biggsEXP6LBFGSAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(biggsEXP6LBFGSAnalyticAbs(xt[4]-x[4]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[5]; !(biggsEXP6LBFGSAnalyticAbs(xt[5]-x[5]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1257,8 +1451,15 @@ func biggsEXP6LBFGSAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float
 
 // biggsEXP6LBFGSAnalyticMoveTo sets out = x + t·d.
 func biggsEXP6LBFGSAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
+		out[5] = x[5] + t*d[5]
 	}
 }
 
@@ -1324,8 +1525,15 @@ func biggsEXP6LBFGSAnalyticExpandTrial(previous, current *biggsEXP6LBFGSAnalytic
 
 // biggsEXP6LBFGSAnalyticGradientChange sets out = a − b.
 func biggsEXP6LBFGSAnalyticGradientChange(out, a, b *[6]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
+		out[5] = a[5] - b[5]
 	}
 }
 

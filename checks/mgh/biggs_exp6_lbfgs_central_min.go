@@ -602,8 +602,15 @@ func (s *biggsEXP6LBFGSCentralDirection) compute(g, d *[6]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*biggsEXP6LBFGSCentralDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[4] -= a * y[4]
+			q[5] -= a * y[5]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +618,15 @@ func (s *biggsEXP6LBFGSCentralDirection) compute(g, d *[6]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[4] *= s.gamma
+			q[5] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +637,15 @@ func (s *biggsEXP6LBFGSCentralDirection) compute(g, d *[6]float64) {
 		}
 		beta := s.rho[k] * biggsEXP6LBFGSCentralDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[4] += step[4] * c
+			q[5] += step[5] * c
 		}
 	}
 	biggsEXP6LBFGSCentralNegate(d, &q)
@@ -661,16 +682,30 @@ func (s *biggsEXP6LBFGSCentralDirection) firstTrial(t, slope, now float64) float
 // biggsEXP6LBFGSCentralDot returns aᵀb.
 func biggsEXP6LBFGSCentralDot(a, b *[6]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
+		s += a[5] * b[5]
 	}
 	return s
 }
 
 // biggsEXP6LBFGSCentralNegate sets out = −x.
 func biggsEXP6LBFGSCentralNegate(out, x *[6]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
+		out[5] = -x[5]
 	}
 }
 
@@ -718,8 +753,25 @@ func biggsEXP6LBFGSCentralFinite(v float64) bool {
 
 // biggsEXP6LBFGSCentralFiniteVec reports whether every component of x is finite.
 func biggsEXP6LBFGSCentralFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !biggsEXP6LBFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !biggsEXP6LBFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !biggsEXP6LBFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !biggsEXP6LBFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !biggsEXP6LBFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !biggsEXP6LBFGSCentralFinite(x[4]) {
+			return false
+		}
+		if !biggsEXP6LBFGSCentralFinite(x[5]) {
 			return false
 		}
 	}
@@ -894,8 +946,15 @@ func biggsEXP6LBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func biggsEXP6LBFGSCentralNoiseLevel(x *[6]float64, fx float64, g *[6]float64) float64 {
 	sum := biggsEXP6LBFGSCentralAbs(fx)
-	for i := range x {
-		sum += biggsEXP6LBFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			sum += biggsEXP6LBFGSCentralAbs(g[i] * x[i])
+			sum += biggsEXP6LBFGSCentralAbs(g[i+1] * x[i+1])
+			sum += biggsEXP6LBFGSCentralAbs(g[i+2] * x[i+2])
+			sum += biggsEXP6LBFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += biggsEXP6LBFGSCentralAbs(g[4] * x[4])
+		sum += biggsEXP6LBFGSCentralAbs(g[5] * x[5])
 	}
 	return 4 * biggsEXP6LBFGSCentralUnitRoundoff * sum
 }
@@ -1022,15 +1081,29 @@ func biggsEXP6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]fl
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
+		wide.ratio[5] *= 2
 	}
 	var doubled [6]float64
 	calls += biggsEXP6LBFGSCentralDerivative(x, fx, g, diffs)
 	calls += biggsEXP6LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	biggsEXP6LBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * biggsEXP6LBFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * biggsEXP6LBFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * biggsEXP6LBFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * biggsEXP6LBFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * biggsEXP6LBFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * biggsEXP6LBFGSCentralAbs(g[4]-doubled[4])
+		e[5] += 3 * biggsEXP6LBFGSCentralAbs(g[5]-doubled[5])
 	}
 	return calls, true
 }
@@ -1064,8 +1137,15 @@ func biggsEXP6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]floa
 func biggsEXP6LBFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
 	var h [6]float64
 	biggsEXP6LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[4]) * h[4]
+		e[5] += 4 * biggsEXP6LBFGSCentralUnitRoundoff * biggsEXP6LBFGSCentralAbs(x[5]) * h[5]
 	}
 }
 
@@ -1093,10 +1173,39 @@ func biggsEXP6LBFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *biggs
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
 	scale := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = biggsEXP6LBFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i])+e[i])*w)
+				floor = biggsEXP6LBFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i+1]), 1) / scale
+				measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = biggsEXP6LBFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i+2]), 1) / scale
+				measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = biggsEXP6LBFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i+3]), 1) / scale
+				measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = biggsEXP6LBFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[4]), 1) / scale
+			measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[4])+e[4])*w)
+			floor = biggsEXP6LBFGSCentralLarger(floor, e[4]*w)
+		}
+		{
+			w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[5]), 1) / scale
+			measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[5])+e[5])*w)
+			floor = biggsEXP6LBFGSCentralLarger(floor, e[5]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1106,8 +1215,25 @@ func biggsEXP6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (meas
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64, diffs *biggsEXP6LBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(biggsEXP6LBFGSCentralAbs(s[i+1]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(biggsEXP6LBFGSCentralAbs(s[i+2]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(biggsEXP6LBFGSCentralAbs(s[i+3]) <= tol*biggsEXP6LBFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(biggsEXP6LBFGSCentralAbs(s[4]) <= tol*biggsEXP6LBFGSCentralStepScale(x[4], 4, diffs)) {
+			return false
+		}
+		if !(biggsEXP6LBFGSCentralAbs(s[5]) <= tol*biggsEXP6LBFGSCentralStepScale(x[5], 5, diffs)) {
 			return false
 		}
 	}
@@ -1159,9 +1285,36 @@ func (f *biggsEXP6LBFGSCentralStepFloor) at(x, d *[6]float64, diffs *biggsEXP6LB
 // step test, min over i of tol·biggsEXP6LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *biggsEXP6LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * biggsEXP6LBFGSCentralStepScale(x[i], i, diffs) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * biggsEXP6LBFGSCentralStepScale(x[i], i, diffs) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * biggsEXP6LBFGSCentralStepScale(x[i+1], i+1, diffs) / biggsEXP6LBFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * biggsEXP6LBFGSCentralStepScale(x[i+2], i+2, diffs) / biggsEXP6LBFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * biggsEXP6LBFGSCentralStepScale(x[i+3], i+3, diffs) / biggsEXP6LBFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * biggsEXP6LBFGSCentralStepScale(x[4], 4, diffs) / biggsEXP6LBFGSCentralAbs(d[4]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[5] != 0 {
+			if t := tol * biggsEXP6LBFGSCentralStepScale(x[5], 5, diffs) / biggsEXP6LBFGSCentralAbs(d[5]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1309,8 +1462,25 @@ func biggsEXP6LBFGSCentralShrinkDirection(d, g *[6]float64) {
 // biggsEXP6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func biggsEXP6LBFGSCentralMaxAbs(x *[6]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := biggsEXP6LBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := biggsEXP6LBFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6LBFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6LBFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := biggsEXP6LBFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := biggsEXP6LBFGSCentralAbs(x[4]); a > m || a != a {
+			m = a
+		}
+		if a := biggsEXP6LBFGSCentralAbs(x[5]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1319,8 +1489,15 @@ func biggsEXP6LBFGSCentralMaxAbs(x *[6]float64) float64 {
 
 // biggsEXP6LBFGSCentralScaleBy sets x = c·x.
 func biggsEXP6LBFGSCentralScaleBy(x *[6]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
+		x[5] *= c
 	}
 }
 
@@ -1385,8 +1562,25 @@ func (r *biggsEXP6LBFGSCentralRiseTrend) contradicts() bool {
 // biggsEXP6LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func biggsEXP6LBFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(biggsEXP6LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(biggsEXP6LBFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(biggsEXP6LBFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(biggsEXP6LBFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(biggsEXP6LBFGSCentralAbs(xt[4]-x[4]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[5]; !(biggsEXP6LBFGSCentralAbs(xt[5]-x[5]-want) <= 0.01*biggsEXP6LBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1435,8 +1629,15 @@ func biggsEXP6LBFGSCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float6
 
 // biggsEXP6LBFGSCentralMoveTo sets out = x + t·d.
 func biggsEXP6LBFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
+		out[5] = x[5] + t*d[5]
 	}
 }
 
@@ -1502,8 +1703,15 @@ func biggsEXP6LBFGSCentralExpandTrial(previous, current *biggsEXP6LBFGSCentralLi
 
 // biggsEXP6LBFGSCentralGradientChange sets out = a − b.
 func biggsEXP6LBFGSCentralGradientChange(out, a, b *[6]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
+		out[5] = a[5] - b[5]
 	}
 }
 

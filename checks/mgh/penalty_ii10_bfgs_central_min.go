@@ -586,8 +586,15 @@ type penaltyII10BFGSCentralDirection struct {
 
 func (s *penaltyII10BFGSCentralDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][8] = 0
+			s.h[i][9] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +602,15 @@ func (s *penaltyII10BFGSCentralDirection) reset() {
 }
 
 func (s *penaltyII10BFGSCentralDirection) compute(g, d *[10]float64) {
-	for i := range s.h {
-		d[i] = -penaltyII10BFGSCentralDot(&s.h[i], g)
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -penaltyII10BFGSCentralDot(&s.h[i], g)
+			d[i+1] = -penaltyII10BFGSCentralDot(&s.h[i+1], g)
+			d[i+2] = -penaltyII10BFGSCentralDot(&s.h[i+2], g)
+			d[i+3] = -penaltyII10BFGSCentralDot(&s.h[i+3], g)
+		}
+		d[8] = -penaltyII10BFGSCentralDot(&s.h[8], g)
+		d[9] = -penaltyII10BFGSCentralDot(&s.h[9], g)
 	}
 }
 
@@ -607,8 +621,15 @@ func (s *penaltyII10BFGSCentralDirection) update(step, change *[10]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / penaltyII10BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[8][8] = gamma
+			s.h[9][9] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +637,15 @@ func (s *penaltyII10BFGSCentralDirection) update(step, change *[10]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [10]float64
-	for i := range s.h {
-		hy[i] = penaltyII10BFGSCentralDot(&s.h[i], change)
+	{
+		for i := 0; i < 8; i += 4 {
+			hy[i] = penaltyII10BFGSCentralDot(&s.h[i], change)
+			hy[i+1] = penaltyII10BFGSCentralDot(&s.h[i+1], change)
+			hy[i+2] = penaltyII10BFGSCentralDot(&s.h[i+2], change)
+			hy[i+3] = penaltyII10BFGSCentralDot(&s.h[i+3], change)
+		}
+		hy[8] = penaltyII10BFGSCentralDot(&s.h[8], change)
+		hy[9] = penaltyII10BFGSCentralDot(&s.h[9], change)
 	}
 	outer := (rho*rho*penaltyII10BFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +653,15 @@ func (s *penaltyII10BFGSCentralDirection) update(step, change *[10]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][8] += a*step[8] - b*hy[8]
+			s.h[i][9] += a*step[9] - b*hy[9]
 		}
 	}
 }
@@ -643,8 +678,15 @@ func (s *penaltyII10BFGSCentralDirection) firstTrial(t, slope, now float64) floa
 // penaltyII10BFGSCentralDot returns aᵀb.
 func penaltyII10BFGSCentralDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
@@ -699,8 +741,25 @@ func penaltyII10BFGSCentralFinite(v float64) bool {
 
 // penaltyII10BFGSCentralFiniteVec reports whether every component of x is finite.
 func penaltyII10BFGSCentralFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !penaltyII10BFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !penaltyII10BFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !penaltyII10BFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !penaltyII10BFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !penaltyII10BFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !penaltyII10BFGSCentralFinite(x[8]) {
+			return false
+		}
+		if !penaltyII10BFGSCentralFinite(x[9]) {
 			return false
 		}
 	}
@@ -875,8 +934,15 @@ func penaltyII10BFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func penaltyII10BFGSCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
 	sum := penaltyII10BFGSCentralAbs(fx)
-	for i := range x {
-		sum += penaltyII10BFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += penaltyII10BFGSCentralAbs(g[i] * x[i])
+			sum += penaltyII10BFGSCentralAbs(g[i+1] * x[i+1])
+			sum += penaltyII10BFGSCentralAbs(g[i+2] * x[i+2])
+			sum += penaltyII10BFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += penaltyII10BFGSCentralAbs(g[8] * x[8])
+		sum += penaltyII10BFGSCentralAbs(g[9] * x[9])
 	}
 	return 4 * penaltyII10BFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1069,29 @@ func penaltyII10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += penaltyII10BFGSCentralDerivative(x, fx, g, diffs)
 	calls += penaltyII10BFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII10BFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyII10BFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * penaltyII10BFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * penaltyII10BFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * penaltyII10BFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * penaltyII10BFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * penaltyII10BFGSCentralAbs(g[8]-doubled[8])
+		e[9] += 3 * penaltyII10BFGSCentralAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -1045,8 +1125,15 @@ func penaltyII10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]f
 func penaltyII10BFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
 	var h [10]float64
 	penaltyII10BFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[8]) * h[8]
+		e[9] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[9]) * h[9]
 	}
 }
 
@@ -1074,10 +1161,39 @@ func penaltyII10BFGSCentralStationarity(g, e, x *[10]float64, fx float64, b *pen
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII10BFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[i])+e[i])*w)
+				floor = penaltyII10BFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[i+1]), 1) / scale
+				measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = penaltyII10BFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[i+2]), 1) / scale
+				measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = penaltyII10BFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[i+3]), 1) / scale
+				measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = penaltyII10BFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[8]), 1) / scale
+			measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[8])+e[8])*w)
+			floor = penaltyII10BFGSCentralLarger(floor, e[8]*w)
+		}
+		{
+			w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[9]), 1) / scale
+			measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[9])+e[9])*w)
+			floor = penaltyII10BFGSCentralLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1203,25 @@ func penaltyII10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (me
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyII10BFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *penaltyII10BFGSCentralDifferences) bool {
-	for i := range s {
-		if !(penaltyII10BFGSCentralAbs(s[i]) <= tol*penaltyII10BFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(penaltyII10BFGSCentralAbs(s[i]) <= tol*penaltyII10BFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(penaltyII10BFGSCentralAbs(s[i+1]) <= tol*penaltyII10BFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(penaltyII10BFGSCentralAbs(s[i+2]) <= tol*penaltyII10BFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(penaltyII10BFGSCentralAbs(s[i+3]) <= tol*penaltyII10BFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(penaltyII10BFGSCentralAbs(s[8]) <= tol*penaltyII10BFGSCentralStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(penaltyII10BFGSCentralAbs(s[9]) <= tol*penaltyII10BFGSCentralStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -1141,9 +1274,36 @@ func (f *penaltyII10BFGSCentralStepFloor) at(x, d *[10]float64, diffs *penaltyII
 // step test, min over i of tol·penaltyII10BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *penaltyII10BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyII10BFGSCentralStepScale(x[i], i, diffs) / penaltyII10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * penaltyII10BFGSCentralStepScale(x[i], i, diffs) / penaltyII10BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * penaltyII10BFGSCentralStepScale(x[i+1], i+1, diffs) / penaltyII10BFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * penaltyII10BFGSCentralStepScale(x[i+2], i+2, diffs) / penaltyII10BFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * penaltyII10BFGSCentralStepScale(x[i+3], i+3, diffs) / penaltyII10BFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * penaltyII10BFGSCentralStepScale(x[8], 8, diffs) / penaltyII10BFGSCentralAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * penaltyII10BFGSCentralStepScale(x[9], 9, diffs) / penaltyII10BFGSCentralAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1291,8 +1451,25 @@ func penaltyII10BFGSCentralShrinkDirection(d, g *[10]float64) {
 // penaltyII10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyII10BFGSCentralMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyII10BFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := penaltyII10BFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := penaltyII10BFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := penaltyII10BFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := penaltyII10BFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := penaltyII10BFGSCentralAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII10BFGSCentralAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1301,8 +1478,15 @@ func penaltyII10BFGSCentralMaxAbs(x *[10]float64) float64 {
 
 // penaltyII10BFGSCentralScaleBy sets x = c·x.
 func penaltyII10BFGSCentralScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1367,8 +1551,25 @@ func (r *penaltyII10BFGSCentralRiseTrend) contradicts() bool {
 // penaltyII10BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyII10BFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII10BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(penaltyII10BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(penaltyII10BFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(penaltyII10BFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(penaltyII10BFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(penaltyII10BFGSCentralAbs(xt[8]-x[8]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(penaltyII10BFGSCentralAbs(xt[9]-x[9]-want) <= 0.01*penaltyII10BFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1417,8 +1618,15 @@ func penaltyII10BFGSCentralTrialPoint(out, x *[10]float64, t float64, d *[10]flo
 
 // penaltyII10BFGSCentralMoveTo sets out = x + t·d.
 func penaltyII10BFGSCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1484,8 +1692,15 @@ func penaltyII10BFGSCentralExpandTrial(previous, current *penaltyII10BFGSCentral
 
 // penaltyII10BFGSCentralGradientChange sets out = a − b.
 func penaltyII10BFGSCentralGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

@@ -602,8 +602,15 @@ func (s *penaltyII10LBFGSAnalyticDirection) compute(g, d *[10]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*penaltyII10LBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[8] -= a * y[8]
+			q[9] -= a * y[9]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +618,15 @@ func (s *penaltyII10LBFGSAnalyticDirection) compute(g, d *[10]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[8] *= s.gamma
+			q[9] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +637,15 @@ func (s *penaltyII10LBFGSAnalyticDirection) compute(g, d *[10]float64) {
 		}
 		beta := s.rho[k] * penaltyII10LBFGSAnalyticDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[8] += step[8] * c
+			q[9] += step[9] * c
 		}
 	}
 	penaltyII10LBFGSAnalyticNegate(d, &q)
@@ -661,16 +682,30 @@ func (s *penaltyII10LBFGSAnalyticDirection) firstTrial(t, slope, now float64) fl
 // penaltyII10LBFGSAnalyticDot returns aᵀb.
 func penaltyII10LBFGSAnalyticDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
 
 // penaltyII10LBFGSAnalyticNegate sets out = −x.
 func penaltyII10LBFGSAnalyticNegate(out, x *[10]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[8] = -x[8]
+		out[9] = -x[9]
 	}
 }
 
@@ -718,8 +753,25 @@ func penaltyII10LBFGSAnalyticFinite(v float64) bool {
 
 // penaltyII10LBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func penaltyII10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !penaltyII10LBFGSAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !penaltyII10LBFGSAnalyticFinite(x[i]) {
+				return false
+			}
+			if !penaltyII10LBFGSAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !penaltyII10LBFGSAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !penaltyII10LBFGSAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !penaltyII10LBFGSAnalyticFinite(x[8]) {
+			return false
+		}
+		if !penaltyII10LBFGSAnalyticFinite(x[9]) {
 			return false
 		}
 	}
@@ -773,15 +825,29 @@ func penaltyII10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += penaltyII10LBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += penaltyII10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII10LBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * penaltyII10LBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * penaltyII10LBFGSAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * penaltyII10LBFGSAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * penaltyII10LBFGSAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * penaltyII10LBFGSAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * penaltyII10LBFGSAnalyticAbs(g[8]-doubled[8])
+		e[9] += 3 * penaltyII10LBFGSAnalyticAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -789,8 +855,15 @@ func penaltyII10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[
 // penaltyII10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func penaltyII10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
+		e[9] = 0
 	}
 }
 
@@ -811,8 +884,15 @@ func penaltyII10LBFGSAnalyticAbs(v float64) float64 {
 func penaltyII10LBFGSAnalyticRoundingFloor(x, g, e *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
 	var h [10]float64
 	penaltyII10LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[8]) * h[8]
+		e[9] += 4 * penaltyII10LBFGSAnalyticUnitRoundoff * penaltyII10LBFGSAnalyticAbs(x[9]) * h[9]
 	}
 }
 
@@ -914,10 +994,39 @@ func penaltyII10LBFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *p
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyII10LBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i])+e[i])*w)
+				floor = penaltyII10LBFGSAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i+1]), 1) / scale
+				measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = penaltyII10LBFGSAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i+2]), 1) / scale
+				measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = penaltyII10LBFGSAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i+3]), 1) / scale
+				measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = penaltyII10LBFGSAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[8]), 1) / scale
+			measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[8])+e[8])*w)
+			floor = penaltyII10LBFGSAnalyticLarger(floor, e[8]*w)
+		}
+		{
+			w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[9]), 1) / scale
+			measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[9])+e[9])*w)
+			floor = penaltyII10LBFGSAnalyticLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -927,8 +1036,25 @@ func penaltyII10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *penaltyII10LBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(penaltyII10LBFGSAnalyticAbs(s[i+1]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(penaltyII10LBFGSAnalyticAbs(s[i+2]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(penaltyII10LBFGSAnalyticAbs(s[i+3]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(penaltyII10LBFGSAnalyticAbs(s[8]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(penaltyII10LBFGSAnalyticAbs(s[9]) <= tol*penaltyII10LBFGSAnalyticStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -981,9 +1107,36 @@ func (f *penaltyII10LBFGSAnalyticStepFloor) at(x, d *[10]float64, diffs *penalty
 // step test, min over i of tol·penaltyII10LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *penaltyII10LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i], i, diffs) / penaltyII10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i], i, diffs) / penaltyII10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i+1], i+1, diffs) / penaltyII10LBFGSAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i+2], i+2, diffs) / penaltyII10LBFGSAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * penaltyII10LBFGSAnalyticStepScale(x[i+3], i+3, diffs) / penaltyII10LBFGSAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * penaltyII10LBFGSAnalyticStepScale(x[8], 8, diffs) / penaltyII10LBFGSAnalyticAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * penaltyII10LBFGSAnalyticStepScale(x[9], 9, diffs) / penaltyII10LBFGSAnalyticAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1131,8 +1284,25 @@ func penaltyII10LBFGSAnalyticShrinkDirection(d, g *[10]float64) {
 // penaltyII10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func penaltyII10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := penaltyII10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := penaltyII10LBFGSAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := penaltyII10LBFGSAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := penaltyII10LBFGSAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := penaltyII10LBFGSAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := penaltyII10LBFGSAnalyticAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := penaltyII10LBFGSAnalyticAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1141,8 +1311,15 @@ func penaltyII10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
 
 // penaltyII10LBFGSAnalyticScaleBy sets x = c·x.
 func penaltyII10LBFGSAnalyticScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1207,8 +1384,25 @@ func (r *penaltyII10LBFGSAnalyticRiseTrend) contradicts() bool {
 // penaltyII10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func penaltyII10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(penaltyII10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(penaltyII10LBFGSAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(penaltyII10LBFGSAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(penaltyII10LBFGSAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(penaltyII10LBFGSAnalyticAbs(xt[8]-x[8]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(penaltyII10LBFGSAnalyticAbs(xt[9]-x[9]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1257,8 +1451,15 @@ func penaltyII10LBFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]f
 
 // penaltyII10LBFGSAnalyticMoveTo sets out = x + t·d.
 func penaltyII10LBFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1324,8 +1525,15 @@ func penaltyII10LBFGSAnalyticExpandTrial(previous, current *penaltyII10LBFGSAnal
 
 // penaltyII10LBFGSAnalyticGradientChange sets out = a − b.
 func penaltyII10LBFGSAnalyticGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

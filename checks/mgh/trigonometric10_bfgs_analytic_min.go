@@ -586,8 +586,15 @@ type trigonometric10BFGSAnalyticDirection struct {
 
 func (s *trigonometric10BFGSAnalyticDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][8] = 0
+			s.h[i][9] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +602,15 @@ func (s *trigonometric10BFGSAnalyticDirection) reset() {
 }
 
 func (s *trigonometric10BFGSAnalyticDirection) compute(g, d *[10]float64) {
-	for i := range s.h {
-		d[i] = -trigonometric10BFGSAnalyticDot(&s.h[i], g)
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -trigonometric10BFGSAnalyticDot(&s.h[i], g)
+			d[i+1] = -trigonometric10BFGSAnalyticDot(&s.h[i+1], g)
+			d[i+2] = -trigonometric10BFGSAnalyticDot(&s.h[i+2], g)
+			d[i+3] = -trigonometric10BFGSAnalyticDot(&s.h[i+3], g)
+		}
+		d[8] = -trigonometric10BFGSAnalyticDot(&s.h[8], g)
+		d[9] = -trigonometric10BFGSAnalyticDot(&s.h[9], g)
 	}
 }
 
@@ -607,8 +621,15 @@ func (s *trigonometric10BFGSAnalyticDirection) update(step, change *[10]float64)
 	}
 	if !s.scaled {
 		gamma := sy / trigonometric10BFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[8][8] = gamma
+			s.h[9][9] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +637,15 @@ func (s *trigonometric10BFGSAnalyticDirection) update(step, change *[10]float64)
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [10]float64
-	for i := range s.h {
-		hy[i] = trigonometric10BFGSAnalyticDot(&s.h[i], change)
+	{
+		for i := 0; i < 8; i += 4 {
+			hy[i] = trigonometric10BFGSAnalyticDot(&s.h[i], change)
+			hy[i+1] = trigonometric10BFGSAnalyticDot(&s.h[i+1], change)
+			hy[i+2] = trigonometric10BFGSAnalyticDot(&s.h[i+2], change)
+			hy[i+3] = trigonometric10BFGSAnalyticDot(&s.h[i+3], change)
+		}
+		hy[8] = trigonometric10BFGSAnalyticDot(&s.h[8], change)
+		hy[9] = trigonometric10BFGSAnalyticDot(&s.h[9], change)
 	}
 	outer := (rho*rho*trigonometric10BFGSAnalyticDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +653,15 @@ func (s *trigonometric10BFGSAnalyticDirection) update(step, change *[10]float64)
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][8] += a*step[8] - b*hy[8]
+			s.h[i][9] += a*step[9] - b*hy[9]
 		}
 	}
 }
@@ -643,8 +678,15 @@ func (s *trigonometric10BFGSAnalyticDirection) firstTrial(t, slope, now float64)
 // trigonometric10BFGSAnalyticDot returns aᵀb.
 func trigonometric10BFGSAnalyticDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
@@ -699,8 +741,25 @@ func trigonometric10BFGSAnalyticFinite(v float64) bool {
 
 // trigonometric10BFGSAnalyticFiniteVec reports whether every component of x is finite.
 func trigonometric10BFGSAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10BFGSAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !trigonometric10BFGSAnalyticFinite(x[i]) {
+				return false
+			}
+			if !trigonometric10BFGSAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !trigonometric10BFGSAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !trigonometric10BFGSAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !trigonometric10BFGSAnalyticFinite(x[8]) {
+			return false
+		}
+		if !trigonometric10BFGSAnalyticFinite(x[9]) {
 			return false
 		}
 	}
@@ -754,15 +813,29 @@ func trigonometric10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += trigonometric10BFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += trigonometric10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	trigonometric10BFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * trigonometric10BFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * trigonometric10BFGSAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * trigonometric10BFGSAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * trigonometric10BFGSAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * trigonometric10BFGSAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * trigonometric10BFGSAnalyticAbs(g[8]-doubled[8])
+		e[9] += 3 * trigonometric10BFGSAnalyticAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -770,8 +843,15 @@ func trigonometric10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e
 // trigonometric10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func trigonometric10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
+		e[9] = 0
 	}
 }
 
@@ -792,8 +872,15 @@ func trigonometric10BFGSAnalyticAbs(v float64) float64 {
 func trigonometric10BFGSAnalyticRoundingFloor(x, g, e *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
 	var h [10]float64
 	trigonometric10BFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[8]) * h[8]
+		e[9] += 4 * trigonometric10BFGSAnalyticUnitRoundoff * trigonometric10BFGSAnalyticAbs(x[9]) * h[9]
 	}
 }
 
@@ -895,10 +982,39 @@ func trigonometric10BFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func trigonometric10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = trigonometric10BFGSAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i])+e[i])*w)
+				floor = trigonometric10BFGSAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i+1]), 1) / scale
+				measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = trigonometric10BFGSAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i+2]), 1) / scale
+				measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = trigonometric10BFGSAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i+3]), 1) / scale
+				measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = trigonometric10BFGSAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[8]), 1) / scale
+			measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[8])+e[8])*w)
+			floor = trigonometric10BFGSAnalyticLarger(floor, e[8]*w)
+		}
+		{
+			w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[9]), 1) / scale
+			measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[9])+e[9])*w)
+			floor = trigonometric10BFGSAnalyticLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +1024,25 @@ func trigonometric10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func trigonometric10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *trigonometric10BFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(trigonometric10BFGSAnalyticAbs(s[i]) <= tol*trigonometric10BFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(trigonometric10BFGSAnalyticAbs(s[i]) <= tol*trigonometric10BFGSAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(trigonometric10BFGSAnalyticAbs(s[i+1]) <= tol*trigonometric10BFGSAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(trigonometric10BFGSAnalyticAbs(s[i+2]) <= tol*trigonometric10BFGSAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(trigonometric10BFGSAnalyticAbs(s[i+3]) <= tol*trigonometric10BFGSAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(trigonometric10BFGSAnalyticAbs(s[8]) <= tol*trigonometric10BFGSAnalyticStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(trigonometric10BFGSAnalyticAbs(s[9]) <= tol*trigonometric10BFGSAnalyticStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -963,9 +1096,36 @@ func (f *trigonometric10BFGSAnalyticStepFloor) at(x, d *[10]float64, diffs *trig
 // step test, min over i of tol·trigonometric10BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * trigonometric10BFGSAnalyticStepScale(x[i], i, diffs) / trigonometric10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * trigonometric10BFGSAnalyticStepScale(x[i], i, diffs) / trigonometric10BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * trigonometric10BFGSAnalyticStepScale(x[i+1], i+1, diffs) / trigonometric10BFGSAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * trigonometric10BFGSAnalyticStepScale(x[i+2], i+2, diffs) / trigonometric10BFGSAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * trigonometric10BFGSAnalyticStepScale(x[i+3], i+3, diffs) / trigonometric10BFGSAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * trigonometric10BFGSAnalyticStepScale(x[8], 8, diffs) / trigonometric10BFGSAnalyticAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * trigonometric10BFGSAnalyticStepScale(x[9], 9, diffs) / trigonometric10BFGSAnalyticAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1113,8 +1273,25 @@ func trigonometric10BFGSAnalyticShrinkDirection(d, g *[10]float64) {
 // trigonometric10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func trigonometric10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := trigonometric10BFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := trigonometric10BFGSAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10BFGSAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10BFGSAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10BFGSAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := trigonometric10BFGSAnalyticAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := trigonometric10BFGSAnalyticAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1123,8 +1300,15 @@ func trigonometric10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
 
 // trigonometric10BFGSAnalyticScaleBy sets x = c·x.
 func trigonometric10BFGSAnalyticScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1189,8 +1373,25 @@ func (r *trigonometric10BFGSAnalyticRiseTrend) contradicts() bool {
 // trigonometric10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func trigonometric10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(trigonometric10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(trigonometric10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(trigonometric10BFGSAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(trigonometric10BFGSAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(trigonometric10BFGSAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(trigonometric10BFGSAnalyticAbs(xt[8]-x[8]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(trigonometric10BFGSAnalyticAbs(xt[9]-x[9]-want) <= 0.01*trigonometric10BFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1239,8 +1440,15 @@ func trigonometric10BFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[1
 
 // trigonometric10BFGSAnalyticMoveTo sets out = x + t·d.
 func trigonometric10BFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1306,8 +1514,15 @@ func trigonometric10BFGSAnalyticExpandTrial(previous, current *trigonometric10BF
 
 // trigonometric10BFGSAnalyticGradientChange sets out = a − b.
 func trigonometric10BFGSAnalyticGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

@@ -618,8 +618,15 @@ type trigonometric10CGAnalyticDirection struct {
 func (s *trigonometric10CGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 8; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[8] = 1
+		s.curvature[9] = 1
 	}
 }
 
@@ -627,16 +634,30 @@ func (s *trigonometric10CGAnalyticDirection) compute(g, d *[10]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 8; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[8] /= s.curvature[8]
+			z[9] /= s.curvature[9]
 		}
 	}
 	gz, zy := trigonometric10CGAnalyticDot(g, &z), trigonometric10CGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && trigonometric10CGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = trigonometric10CGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[8] = -z[8] + beta*s.previous[8]
+		d[9] = -z[9] + beta*s.previous[9]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +687,15 @@ func (s *trigonometric10CGAnalyticDirection) update(step, change *[10]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[8] = gamma
+			s.curvature[9] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +730,15 @@ func (s *trigonometric10CGAnalyticDirection) firstTrial(t, slope, now float64) f
 // trigonometric10CGAnalyticDot returns aᵀb.
 func trigonometric10CGAnalyticDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
@@ -782,8 +817,25 @@ func trigonometric10CGAnalyticValue(x, g *[10]float64, diffs *trigonometric10CGA
 
 // trigonometric10CGAnalyticFiniteVec reports whether every component of x is finite.
 func trigonometric10CGAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10CGAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !trigonometric10CGAnalyticFinite(x[i]) {
+				return false
+			}
+			if !trigonometric10CGAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !trigonometric10CGAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !trigonometric10CGAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !trigonometric10CGAnalyticFinite(x[8]) {
+			return false
+		}
+		if !trigonometric10CGAnalyticFinite(x[9]) {
 			return false
 		}
 	}
@@ -837,15 +889,29 @@ func trigonometric10CGAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += trigonometric10CGAnalyticDerivative(x, fx, g, diffs)
 	calls += trigonometric10CGAnalyticDerivative(x, fx, &doubled, &wide)
 	trigonometric10CGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * trigonometric10CGAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * trigonometric10CGAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * trigonometric10CGAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * trigonometric10CGAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * trigonometric10CGAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * trigonometric10CGAnalyticAbs(g[8]-doubled[8])
+		e[9] += 3 * trigonometric10CGAnalyticAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -853,8 +919,15 @@ func trigonometric10CGAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *
 // trigonometric10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func trigonometric10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
+		e[9] = 0
 	}
 }
 
@@ -867,8 +940,15 @@ func trigonometric10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[1
 func trigonometric10CGAnalyticRoundingFloor(x, g, e *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
 	var h [10]float64
 	trigonometric10CGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[8]) * h[8]
+		e[9] += 4 * trigonometric10CGAnalyticUnitRoundoff * trigonometric10CGAnalyticAbs(x[9]) * h[9]
 	}
 }
 
@@ -960,10 +1040,39 @@ func trigonometric10CGAnalyticStationarity(g, e, x *[10]float64, fx float64, b *
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func trigonometric10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i])+e[i])*w)
-		floor = trigonometric10CGAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i])+e[i])*w)
+				floor = trigonometric10CGAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i+1]), 1) / scale
+				measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = trigonometric10CGAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i+2]), 1) / scale
+				measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = trigonometric10CGAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i+3]), 1) / scale
+				measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = trigonometric10CGAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[8]), 1) / scale
+			measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[8])+e[8])*w)
+			floor = trigonometric10CGAnalyticLarger(floor, e[8]*w)
+		}
+		{
+			w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[9]), 1) / scale
+			measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[9])+e[9])*w)
+			floor = trigonometric10CGAnalyticLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -973,8 +1082,25 @@ func trigonometric10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *trigonometric10CGAnalyticDifferences) bool {
-	for i := range s {
-		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*trigonometric10CGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*trigonometric10CGAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(trigonometric10CGAnalyticAbs(s[i+1]) <= tol*trigonometric10CGAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(trigonometric10CGAnalyticAbs(s[i+2]) <= tol*trigonometric10CGAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(trigonometric10CGAnalyticAbs(s[i+3]) <= tol*trigonometric10CGAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(trigonometric10CGAnalyticAbs(s[8]) <= tol*trigonometric10CGAnalyticStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(trigonometric10CGAnalyticAbs(s[9]) <= tol*trigonometric10CGAnalyticStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -1027,9 +1153,36 @@ func (f *trigonometric10CGAnalyticStepFloor) at(x, d *[10]float64, diffs *trigon
 // step test, min over i of tol·trigonometric10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * trigonometric10CGAnalyticStepScale(x[i], i, diffs) / trigonometric10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * trigonometric10CGAnalyticStepScale(x[i], i, diffs) / trigonometric10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * trigonometric10CGAnalyticStepScale(x[i+1], i+1, diffs) / trigonometric10CGAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * trigonometric10CGAnalyticStepScale(x[i+2], i+2, diffs) / trigonometric10CGAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * trigonometric10CGAnalyticStepScale(x[i+3], i+3, diffs) / trigonometric10CGAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * trigonometric10CGAnalyticStepScale(x[8], 8, diffs) / trigonometric10CGAnalyticAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * trigonometric10CGAnalyticStepScale(x[9], 9, diffs) / trigonometric10CGAnalyticAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1177,8 +1330,25 @@ func trigonometric10CGAnalyticShrinkDirection(d, g *[10]float64) {
 // trigonometric10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func trigonometric10CGAnalyticMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := trigonometric10CGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := trigonometric10CGAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10CGAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10CGAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10CGAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := trigonometric10CGAnalyticAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := trigonometric10CGAnalyticAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1187,8 +1357,15 @@ func trigonometric10CGAnalyticMaxAbs(x *[10]float64) float64 {
 
 // trigonometric10CGAnalyticScaleBy sets x = c·x.
 func trigonometric10CGAnalyticScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1253,8 +1430,25 @@ func (r *trigonometric10CGAnalyticRiseTrend) contradicts() bool {
 // trigonometric10CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func trigonometric10CGAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(trigonometric10CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(trigonometric10CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(trigonometric10CGAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(trigonometric10CGAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(trigonometric10CGAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(trigonometric10CGAnalyticAbs(xt[8]-x[8]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(trigonometric10CGAnalyticAbs(xt[9]-x[9]-want) <= 0.01*trigonometric10CGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1303,8 +1497,15 @@ func trigonometric10CGAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]
 
 // trigonometric10CGAnalyticMoveTo sets out = x + t·d.
 func trigonometric10CGAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1370,8 +1571,15 @@ func trigonometric10CGAnalyticExpandTrial(previous, current *trigonometric10CGAn
 
 // trigonometric10CGAnalyticGradientChange sets out = a − b.
 func trigonometric10CGAnalyticGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

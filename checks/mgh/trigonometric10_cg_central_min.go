@@ -618,8 +618,15 @@ type trigonometric10CGCentralDirection struct {
 func (s *trigonometric10CGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 8; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[8] = 1
+		s.curvature[9] = 1
 	}
 }
 
@@ -627,16 +634,30 @@ func (s *trigonometric10CGCentralDirection) compute(g, d *[10]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 8; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[8] /= s.curvature[8]
+			z[9] /= s.curvature[9]
 		}
 	}
 	gz, zy := trigonometric10CGCentralDot(g, &z), trigonometric10CGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && trigonometric10CGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = trigonometric10CGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[8] = -z[8] + beta*s.previous[8]
+		d[9] = -z[9] + beta*s.previous[9]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +687,15 @@ func (s *trigonometric10CGCentralDirection) update(step, change *[10]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[8] = gamma
+			s.curvature[9] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +730,15 @@ func (s *trigonometric10CGCentralDirection) firstTrial(t, slope, now float64) fl
 // trigonometric10CGCentralDot returns aᵀb.
 func trigonometric10CGCentralDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
@@ -782,8 +817,25 @@ func trigonometric10CGCentralValue(x, g *[10]float64, diffs *trigonometric10CGCe
 
 // trigonometric10CGCentralFiniteVec reports whether every component of x is finite.
 func trigonometric10CGCentralFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10CGCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !trigonometric10CGCentralFinite(x[i]) {
+				return false
+			}
+			if !trigonometric10CGCentralFinite(x[i+1]) {
+				return false
+			}
+			if !trigonometric10CGCentralFinite(x[i+2]) {
+				return false
+			}
+			if !trigonometric10CGCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !trigonometric10CGCentralFinite(x[8]) {
+			return false
+		}
+		if !trigonometric10CGCentralFinite(x[9]) {
 			return false
 		}
 	}
@@ -940,8 +992,15 @@ func trigonometric10CGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func trigonometric10CGCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
 	sum := trigonometric10CGCentralAbs(fx)
-	for i := range x {
-		sum += trigonometric10CGCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += trigonometric10CGCentralAbs(g[i] * x[i])
+			sum += trigonometric10CGCentralAbs(g[i+1] * x[i+1])
+			sum += trigonometric10CGCentralAbs(g[i+2] * x[i+2])
+			sum += trigonometric10CGCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += trigonometric10CGCentralAbs(g[8] * x[8])
+		sum += trigonometric10CGCentralAbs(g[9] * x[9])
 	}
 	return 4 * trigonometric10CGCentralUnitRoundoff * sum
 }
@@ -1068,15 +1127,29 @@ func trigonometric10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += trigonometric10CGCentralDerivative(x, fx, g, diffs)
 	calls += trigonometric10CGCentralDerivative(x, fx, &doubled, &wide)
 	trigonometric10CGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * trigonometric10CGCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * trigonometric10CGCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * trigonometric10CGCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * trigonometric10CGCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * trigonometric10CGCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * trigonometric10CGCentralAbs(g[8]-doubled[8])
+		e[9] += 3 * trigonometric10CGCentralAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -1110,8 +1183,15 @@ func trigonometric10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10
 func trigonometric10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *trigonometric10CGCentralDifferences) {
 	var h [10]float64
 	trigonometric10CGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[8]) * h[8]
+		e[9] += 4 * trigonometric10CGCentralUnitRoundoff * trigonometric10CGCentralAbs(x[9]) * h[9]
 	}
 }
 
@@ -1139,10 +1219,39 @@ func trigonometric10CGCentralStationarity(g, e, x *[10]float64, fx float64, b *t
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func trigonometric10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i])+e[i])*w)
-		floor = trigonometric10CGCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i])+e[i])*w)
+				floor = trigonometric10CGCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i+1]), 1) / scale
+				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i+1])+e[i+1])*w)
+				floor = trigonometric10CGCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i+2]), 1) / scale
+				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i+2])+e[i+2])*w)
+				floor = trigonometric10CGCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i+3]), 1) / scale
+				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i+3])+e[i+3])*w)
+				floor = trigonometric10CGCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[8]), 1) / scale
+			measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[8])+e[8])*w)
+			floor = trigonometric10CGCentralLarger(floor, e[8]*w)
+		}
+		{
+			w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[9]), 1) / scale
+			measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[9])+e[9])*w)
+			floor = trigonometric10CGCentralLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1152,8 +1261,25 @@ func trigonometric10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func trigonometric10CGCentralStepWithin(s, x *[10]float64, tol float64, diffs *trigonometric10CGCentralDifferences) bool {
-	for i := range s {
-		if !(trigonometric10CGCentralAbs(s[i]) <= tol*trigonometric10CGCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(trigonometric10CGCentralAbs(s[i]) <= tol*trigonometric10CGCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(trigonometric10CGCentralAbs(s[i+1]) <= tol*trigonometric10CGCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(trigonometric10CGCentralAbs(s[i+2]) <= tol*trigonometric10CGCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(trigonometric10CGCentralAbs(s[i+3]) <= tol*trigonometric10CGCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(trigonometric10CGCentralAbs(s[8]) <= tol*trigonometric10CGCentralStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(trigonometric10CGCentralAbs(s[9]) <= tol*trigonometric10CGCentralStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -1206,9 +1332,36 @@ func (f *trigonometric10CGCentralStepFloor) at(x, d *[10]float64, diffs *trigono
 // step test, min over i of tol·trigonometric10CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10CGCentralTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10CGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * trigonometric10CGCentralStepScale(x[i], i, diffs) / trigonometric10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * trigonometric10CGCentralStepScale(x[i], i, diffs) / trigonometric10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * trigonometric10CGCentralStepScale(x[i+1], i+1, diffs) / trigonometric10CGCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * trigonometric10CGCentralStepScale(x[i+2], i+2, diffs) / trigonometric10CGCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * trigonometric10CGCentralStepScale(x[i+3], i+3, diffs) / trigonometric10CGCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * trigonometric10CGCentralStepScale(x[8], 8, diffs) / trigonometric10CGCentralAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * trigonometric10CGCentralStepScale(x[9], 9, diffs) / trigonometric10CGCentralAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1356,8 +1509,25 @@ func trigonometric10CGCentralShrinkDirection(d, g *[10]float64) {
 // trigonometric10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func trigonometric10CGCentralMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := trigonometric10CGCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := trigonometric10CGCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10CGCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10CGCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10CGCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := trigonometric10CGCentralAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := trigonometric10CGCentralAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1366,8 +1536,15 @@ func trigonometric10CGCentralMaxAbs(x *[10]float64) float64 {
 
 // trigonometric10CGCentralScaleBy sets x = c·x.
 func trigonometric10CGCentralScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1432,8 +1609,25 @@ func (r *trigonometric10CGCentralRiseTrend) contradicts() bool {
 // trigonometric10CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func trigonometric10CGCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(trigonometric10CGCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(trigonometric10CGCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(trigonometric10CGCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(trigonometric10CGCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(trigonometric10CGCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(trigonometric10CGCentralAbs(xt[8]-x[8]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(trigonometric10CGCentralAbs(xt[9]-x[9]-want) <= 0.01*trigonometric10CGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1482,8 +1676,15 @@ func trigonometric10CGCentralTrialPoint(out, x *[10]float64, t float64, d *[10]f
 
 // trigonometric10CGCentralMoveTo sets out = x + t·d.
 func trigonometric10CGCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1549,8 +1750,15 @@ func trigonometric10CGCentralExpandTrial(previous, current *trigonometric10CGCen
 
 // trigonometric10CGCentralGradientChange sets out = a − b.
 func trigonometric10CGCentralGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

@@ -602,8 +602,15 @@ func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*trigonometric10LBFGSCentralDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[8] -= a * y[8]
+			q[9] -= a * y[9]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +618,15 @@ func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[8] *= s.gamma
+			q[9] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +637,15 @@ func (s *trigonometric10LBFGSCentralDirection) compute(g, d *[10]float64) {
 		}
 		beta := s.rho[k] * trigonometric10LBFGSCentralDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[8] += step[8] * c
+			q[9] += step[9] * c
 		}
 	}
 	trigonometric10LBFGSCentralNegate(d, &q)
@@ -661,16 +682,30 @@ func (s *trigonometric10LBFGSCentralDirection) firstTrial(t, slope, now float64)
 // trigonometric10LBFGSCentralDot returns aᵀb.
 func trigonometric10LBFGSCentralDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
 
 // trigonometric10LBFGSCentralNegate sets out = −x.
 func trigonometric10LBFGSCentralNegate(out, x *[10]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[8] = -x[8]
+		out[9] = -x[9]
 	}
 }
 
@@ -718,8 +753,25 @@ func trigonometric10LBFGSCentralFinite(v float64) bool {
 
 // trigonometric10LBFGSCentralFiniteVec reports whether every component of x is finite.
 func trigonometric10LBFGSCentralFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !trigonometric10LBFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !trigonometric10LBFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !trigonometric10LBFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !trigonometric10LBFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !trigonometric10LBFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !trigonometric10LBFGSCentralFinite(x[8]) {
+			return false
+		}
+		if !trigonometric10LBFGSCentralFinite(x[9]) {
 			return false
 		}
 	}
@@ -894,8 +946,15 @@ func trigonometric10LBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func trigonometric10LBFGSCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
 	sum := trigonometric10LBFGSCentralAbs(fx)
-	for i := range x {
-		sum += trigonometric10LBFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += trigonometric10LBFGSCentralAbs(g[i] * x[i])
+			sum += trigonometric10LBFGSCentralAbs(g[i+1] * x[i+1])
+			sum += trigonometric10LBFGSCentralAbs(g[i+2] * x[i+2])
+			sum += trigonometric10LBFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += trigonometric10LBFGSCentralAbs(g[8] * x[8])
+		sum += trigonometric10LBFGSCentralAbs(g[9] * x[9])
 	}
 	return 4 * trigonometric10LBFGSCentralUnitRoundoff * sum
 }
@@ -1022,15 +1081,29 @@ func trigonometric10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += trigonometric10LBFGSCentralDerivative(x, fx, g, diffs)
 	calls += trigonometric10LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	trigonometric10LBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * trigonometric10LBFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * trigonometric10LBFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * trigonometric10LBFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * trigonometric10LBFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * trigonometric10LBFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * trigonometric10LBFGSCentralAbs(g[8]-doubled[8])
+		e[9] += 3 * trigonometric10LBFGSCentralAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -1064,8 +1137,15 @@ func trigonometric10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *
 func trigonometric10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
 	var h [10]float64
 	trigonometric10LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[8]) * h[8]
+		e[9] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[9]) * h[9]
 	}
 }
 
@@ -1093,10 +1173,39 @@ func trigonometric10LBFGSCentralStationarity(g, e, x *[10]float64, fx float64, b
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func trigonometric10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = trigonometric10LBFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i])+e[i])*w)
+				floor = trigonometric10LBFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i+1]), 1) / scale
+				measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = trigonometric10LBFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i+2]), 1) / scale
+				measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = trigonometric10LBFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i+3]), 1) / scale
+				measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = trigonometric10LBFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[8]), 1) / scale
+			measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[8])+e[8])*w)
+			floor = trigonometric10LBFGSCentralLarger(floor, e[8]*w)
+		}
+		{
+			w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[9]), 1) / scale
+			measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[9])+e[9])*w)
+			floor = trigonometric10LBFGSCentralLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1106,8 +1215,25 @@ func trigonometric10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func trigonometric10LBFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *trigonometric10LBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(trigonometric10LBFGSCentralAbs(s[i]) <= tol*trigonometric10LBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(trigonometric10LBFGSCentralAbs(s[i]) <= tol*trigonometric10LBFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(trigonometric10LBFGSCentralAbs(s[i+1]) <= tol*trigonometric10LBFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(trigonometric10LBFGSCentralAbs(s[i+2]) <= tol*trigonometric10LBFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(trigonometric10LBFGSCentralAbs(s[i+3]) <= tol*trigonometric10LBFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(trigonometric10LBFGSCentralAbs(s[8]) <= tol*trigonometric10LBFGSCentralStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(trigonometric10LBFGSCentralAbs(s[9]) <= tol*trigonometric10LBFGSCentralStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -1161,9 +1287,36 @@ func (f *trigonometric10LBFGSCentralStepFloor) at(x, d *[10]float64, diffs *trig
 // step test, min over i of tol·trigonometric10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func trigonometric10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *trigonometric10LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * trigonometric10LBFGSCentralStepScale(x[i], i, diffs) / trigonometric10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * trigonometric10LBFGSCentralStepScale(x[i], i, diffs) / trigonometric10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * trigonometric10LBFGSCentralStepScale(x[i+1], i+1, diffs) / trigonometric10LBFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * trigonometric10LBFGSCentralStepScale(x[i+2], i+2, diffs) / trigonometric10LBFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * trigonometric10LBFGSCentralStepScale(x[i+3], i+3, diffs) / trigonometric10LBFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * trigonometric10LBFGSCentralStepScale(x[8], 8, diffs) / trigonometric10LBFGSCentralAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * trigonometric10LBFGSCentralStepScale(x[9], 9, diffs) / trigonometric10LBFGSCentralAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1311,8 +1464,25 @@ func trigonometric10LBFGSCentralShrinkDirection(d, g *[10]float64) {
 // trigonometric10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func trigonometric10LBFGSCentralMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := trigonometric10LBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := trigonometric10LBFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10LBFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10LBFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := trigonometric10LBFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := trigonometric10LBFGSCentralAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := trigonometric10LBFGSCentralAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1321,8 +1491,15 @@ func trigonometric10LBFGSCentralMaxAbs(x *[10]float64) float64 {
 
 // trigonometric10LBFGSCentralScaleBy sets x = c·x.
 func trigonometric10LBFGSCentralScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1387,8 +1564,25 @@ func (r *trigonometric10LBFGSCentralRiseTrend) contradicts() bool {
 // trigonometric10LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func trigonometric10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(trigonometric10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(trigonometric10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(trigonometric10LBFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(trigonometric10LBFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(trigonometric10LBFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(trigonometric10LBFGSCentralAbs(xt[8]-x[8]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(trigonometric10LBFGSCentralAbs(xt[9]-x[9]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1437,8 +1631,15 @@ func trigonometric10LBFGSCentralTrialPoint(out, x *[10]float64, t float64, d *[1
 
 // trigonometric10LBFGSCentralMoveTo sets out = x + t·d.
 func trigonometric10LBFGSCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1504,8 +1705,15 @@ func trigonometric10LBFGSCentralExpandTrial(previous, current *trigonometric10LB
 
 // trigonometric10LBFGSCentralGradientChange sets out = a − b.
 func trigonometric10LBFGSCentralGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

@@ -618,8 +618,15 @@ type variablyDimensioned10CGAnalyticDirection struct {
 func (s *variablyDimensioned10CGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 8; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[8] = 1
+		s.curvature[9] = 1
 	}
 }
 
@@ -627,16 +634,30 @@ func (s *variablyDimensioned10CGAnalyticDirection) compute(g, d *[10]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 8; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[8] /= s.curvature[8]
+			z[9] /= s.curvature[9]
 		}
 	}
 	gz, zy := variablyDimensioned10CGAnalyticDot(g, &z), variablyDimensioned10CGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && variablyDimensioned10CGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = variablyDimensioned10CGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[8] = -z[8] + beta*s.previous[8]
+		d[9] = -z[9] + beta*s.previous[9]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +687,15 @@ func (s *variablyDimensioned10CGAnalyticDirection) update(step, change *[10]floa
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[8] = gamma
+			s.curvature[9] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +730,15 @@ func (s *variablyDimensioned10CGAnalyticDirection) firstTrial(t, slope, now floa
 // variablyDimensioned10CGAnalyticDot returns aᵀb.
 func variablyDimensioned10CGAnalyticDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
@@ -782,8 +817,25 @@ func variablyDimensioned10CGAnalyticValue(x, g *[10]float64, diffs *variablyDime
 
 // variablyDimensioned10CGAnalyticFiniteVec reports whether every component of x is finite.
 func variablyDimensioned10CGAnalyticFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !variablyDimensioned10CGAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !variablyDimensioned10CGAnalyticFinite(x[i]) {
+				return false
+			}
+			if !variablyDimensioned10CGAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !variablyDimensioned10CGAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !variablyDimensioned10CGAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !variablyDimensioned10CGAnalyticFinite(x[8]) {
+			return false
+		}
+		if !variablyDimensioned10CGAnalyticFinite(x[9]) {
 			return false
 		}
 	}
@@ -837,15 +889,29 @@ func variablyDimensioned10CGAnalyticConfirmGradient(x *[10]float64, fx float64, 
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += variablyDimensioned10CGAnalyticDerivative(x, fx, g, diffs)
 	calls += variablyDimensioned10CGAnalyticDerivative(x, fx, &doubled, &wide)
 	variablyDimensioned10CGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * variablyDimensioned10CGAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * variablyDimensioned10CGAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * variablyDimensioned10CGAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * variablyDimensioned10CGAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * variablyDimensioned10CGAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * variablyDimensioned10CGAnalyticAbs(g[8]-doubled[8])
+		e[9] += 3 * variablyDimensioned10CGAnalyticAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -853,8 +919,15 @@ func variablyDimensioned10CGAnalyticConfirmGradient(x *[10]float64, fx float64, 
 // variablyDimensioned10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func variablyDimensioned10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
+		e[9] = 0
 	}
 }
 
@@ -867,8 +940,15 @@ func variablyDimensioned10CGAnalyticGradientError(x *[10]float64, fx float64, g,
 func variablyDimensioned10CGAnalyticRoundingFloor(x, g, e *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
 	var h [10]float64
 	variablyDimensioned10CGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[8]) * h[8]
+		e[9] += 4 * variablyDimensioned10CGAnalyticUnitRoundoff * variablyDimensioned10CGAnalyticAbs(x[9]) * h[9]
 	}
 }
 
@@ -960,10 +1040,39 @@ func variablyDimensioned10CGAnalyticStationarity(g, e, x *[10]float64, fx float6
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func variablyDimensioned10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10CGAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i])+e[i])*w)
+				floor = variablyDimensioned10CGAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i+1]), 1) / scale
+				measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = variablyDimensioned10CGAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i+2]), 1) / scale
+				measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = variablyDimensioned10CGAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i+3]), 1) / scale
+				measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = variablyDimensioned10CGAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[8]), 1) / scale
+			measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[8])+e[8])*w)
+			floor = variablyDimensioned10CGAnalyticLarger(floor, e[8]*w)
+		}
+		{
+			w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[9]), 1) / scale
+			measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[9])+e[9])*w)
+			floor = variablyDimensioned10CGAnalyticLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -973,8 +1082,25 @@ func variablyDimensioned10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx flo
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10CGAnalyticDifferences) bool {
-	for i := range s {
-		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(variablyDimensioned10CGAnalyticAbs(s[i+1]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(variablyDimensioned10CGAnalyticAbs(s[i+2]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(variablyDimensioned10CGAnalyticAbs(s[i+3]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(variablyDimensioned10CGAnalyticAbs(s[8]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(variablyDimensioned10CGAnalyticAbs(s[9]) <= tol*variablyDimensioned10CGAnalyticStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -1028,9 +1154,36 @@ func (f *variablyDimensioned10CGAnalyticStepFloor) at(x, d *[10]float64, diffs *
 // step test, min over i of tol·variablyDimensioned10CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i], i, diffs) / variablyDimensioned10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i], i, diffs) / variablyDimensioned10CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i+1], i+1, diffs) / variablyDimensioned10CGAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i+2], i+2, diffs) / variablyDimensioned10CGAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * variablyDimensioned10CGAnalyticStepScale(x[i+3], i+3, diffs) / variablyDimensioned10CGAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * variablyDimensioned10CGAnalyticStepScale(x[8], 8, diffs) / variablyDimensioned10CGAnalyticAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * variablyDimensioned10CGAnalyticStepScale(x[9], 9, diffs) / variablyDimensioned10CGAnalyticAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1178,8 +1331,25 @@ func variablyDimensioned10CGAnalyticShrinkDirection(d, g *[10]float64) {
 // variablyDimensioned10CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func variablyDimensioned10CGAnalyticMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := variablyDimensioned10CGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := variablyDimensioned10CGAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := variablyDimensioned10CGAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := variablyDimensioned10CGAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := variablyDimensioned10CGAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := variablyDimensioned10CGAnalyticAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := variablyDimensioned10CGAnalyticAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1188,8 +1358,15 @@ func variablyDimensioned10CGAnalyticMaxAbs(x *[10]float64) float64 {
 
 // variablyDimensioned10CGAnalyticScaleBy sets x = c·x.
 func variablyDimensioned10CGAnalyticScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1254,8 +1431,25 @@ func (r *variablyDimensioned10CGAnalyticRiseTrend) contradicts() bool {
 // variablyDimensioned10CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func variablyDimensioned10CGAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(variablyDimensioned10CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(variablyDimensioned10CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(variablyDimensioned10CGAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(variablyDimensioned10CGAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(variablyDimensioned10CGAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(variablyDimensioned10CGAnalyticAbs(xt[8]-x[8]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(variablyDimensioned10CGAnalyticAbs(xt[9]-x[9]-want) <= 0.01*variablyDimensioned10CGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1304,8 +1498,15 @@ func variablyDimensioned10CGAnalyticTrialPoint(out, x *[10]float64, t float64, d
 
 // variablyDimensioned10CGAnalyticMoveTo sets out = x + t·d.
 func variablyDimensioned10CGAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1371,8 +1572,15 @@ func variablyDimensioned10CGAnalyticExpandTrial(previous, current *variablyDimen
 
 // variablyDimensioned10CGAnalyticGradientChange sets out = a − b.
 func variablyDimensioned10CGAnalyticGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

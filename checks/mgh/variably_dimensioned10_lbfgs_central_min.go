@@ -602,8 +602,15 @@ func (s *variablyDimensioned10LBFGSCentralDirection) compute(g, d *[10]float64) 
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*variablyDimensioned10LBFGSCentralDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[8] -= a * y[8]
+			q[9] -= a * y[9]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +618,15 @@ func (s *variablyDimensioned10LBFGSCentralDirection) compute(g, d *[10]float64) 
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[8] *= s.gamma
+			q[9] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +637,15 @@ func (s *variablyDimensioned10LBFGSCentralDirection) compute(g, d *[10]float64) 
 		}
 		beta := s.rho[k] * variablyDimensioned10LBFGSCentralDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[8] += step[8] * c
+			q[9] += step[9] * c
 		}
 	}
 	variablyDimensioned10LBFGSCentralNegate(d, &q)
@@ -661,16 +682,30 @@ func (s *variablyDimensioned10LBFGSCentralDirection) firstTrial(t, slope, now fl
 // variablyDimensioned10LBFGSCentralDot returns aᵀb.
 func variablyDimensioned10LBFGSCentralDot(a, b *[10]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
+		s += a[9] * b[9]
 	}
 	return s
 }
 
 // variablyDimensioned10LBFGSCentralNegate sets out = −x.
 func variablyDimensioned10LBFGSCentralNegate(out, x *[10]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[8] = -x[8]
+		out[9] = -x[9]
 	}
 }
 
@@ -719,8 +754,25 @@ func variablyDimensioned10LBFGSCentralFinite(v float64) bool {
 
 // variablyDimensioned10LBFGSCentralFiniteVec reports whether every component of x is finite.
 func variablyDimensioned10LBFGSCentralFiniteVec(x *[10]float64) bool {
-	for i := range x {
-		if !variablyDimensioned10LBFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !variablyDimensioned10LBFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !variablyDimensioned10LBFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !variablyDimensioned10LBFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !variablyDimensioned10LBFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !variablyDimensioned10LBFGSCentralFinite(x[8]) {
+			return false
+		}
+		if !variablyDimensioned10LBFGSCentralFinite(x[9]) {
 			return false
 		}
 	}
@@ -895,8 +947,15 @@ func variablyDimensioned10LBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func variablyDimensioned10LBFGSCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
 	sum := variablyDimensioned10LBFGSCentralAbs(fx)
-	for i := range x {
-		sum += variablyDimensioned10LBFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += variablyDimensioned10LBFGSCentralAbs(g[i] * x[i])
+			sum += variablyDimensioned10LBFGSCentralAbs(g[i+1] * x[i+1])
+			sum += variablyDimensioned10LBFGSCentralAbs(g[i+2] * x[i+2])
+			sum += variablyDimensioned10LBFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += variablyDimensioned10LBFGSCentralAbs(g[8] * x[8])
+		sum += variablyDimensioned10LBFGSCentralAbs(g[9] * x[9])
 	}
 	return 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * sum
 }
@@ -1023,15 +1082,29 @@ func variablyDimensioned10LBFGSCentralConfirmGradient(x *[10]float64, fx float64
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
+		wide.ratio[9] *= 2
 	}
 	var doubled [10]float64
 	calls += variablyDimensioned10LBFGSCentralDerivative(x, fx, g, diffs)
 	calls += variablyDimensioned10LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	variablyDimensioned10LBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * variablyDimensioned10LBFGSCentralAbs(g[8]-doubled[8])
+		e[9] += 3 * variablyDimensioned10LBFGSCentralAbs(g[9]-doubled[9])
 	}
 	return calls, true
 }
@@ -1065,8 +1138,15 @@ func variablyDimensioned10LBFGSCentralGradientError(x *[10]float64, fx float64, 
 func variablyDimensioned10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
 	var h [10]float64
 	variablyDimensioned10LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[8]) * h[8]
+		e[9] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[9]) * h[9]
 	}
 }
 
@@ -1094,10 +1174,39 @@ func variablyDimensioned10LBFGSCentralStationarity(g, e, x *[10]float64, fx floa
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func variablyDimensioned10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
 	scale := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10LBFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[i])+e[i])*w)
+				floor = variablyDimensioned10LBFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[i+1]), 1) / scale
+				measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = variablyDimensioned10LBFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[i+2]), 1) / scale
+				measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = variablyDimensioned10LBFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[i+3]), 1) / scale
+				measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = variablyDimensioned10LBFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[8]), 1) / scale
+			measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[8])+e[8])*w)
+			floor = variablyDimensioned10LBFGSCentralLarger(floor, e[8]*w)
+		}
+		{
+			w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[9]), 1) / scale
+			measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[9])+e[9])*w)
+			floor = variablyDimensioned10LBFGSCentralLarger(floor, e[9]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1107,8 +1216,25 @@ func variablyDimensioned10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx f
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64, diffs *variablyDimensioned10LBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(variablyDimensioned10LBFGSCentralAbs(s[i]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(variablyDimensioned10LBFGSCentralAbs(s[i]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(variablyDimensioned10LBFGSCentralAbs(s[i+1]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(variablyDimensioned10LBFGSCentralAbs(s[i+2]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(variablyDimensioned10LBFGSCentralAbs(s[i+3]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(variablyDimensioned10LBFGSCentralAbs(s[8]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[8], 8, diffs)) {
+			return false
+		}
+		if !(variablyDimensioned10LBFGSCentralAbs(s[9]) <= tol*variablyDimensioned10LBFGSCentralStepScale(x[9], 9, diffs)) {
 			return false
 		}
 	}
@@ -1162,9 +1288,36 @@ func (f *variablyDimensioned10LBFGSCentralStepFloor) at(x, d *[10]float64, diffs
 // step test, min over i of tol·variablyDimensioned10LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64, diffs *variablyDimensioned10LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i], i, diffs) / variablyDimensioned10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i], i, diffs) / variablyDimensioned10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i+1], i+1, diffs) / variablyDimensioned10LBFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i+2], i+2, diffs) / variablyDimensioned10LBFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[i+3], i+3, diffs) / variablyDimensioned10LBFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[8], 8, diffs) / variablyDimensioned10LBFGSCentralAbs(d[8]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[9] != 0 {
+			if t := tol * variablyDimensioned10LBFGSCentralStepScale(x[9], 9, diffs) / variablyDimensioned10LBFGSCentralAbs(d[9]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1312,8 +1465,25 @@ func variablyDimensioned10LBFGSCentralShrinkDirection(d, g *[10]float64) {
 // variablyDimensioned10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func variablyDimensioned10LBFGSCentralMaxAbs(x *[10]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := variablyDimensioned10LBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := variablyDimensioned10LBFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := variablyDimensioned10LBFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := variablyDimensioned10LBFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := variablyDimensioned10LBFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := variablyDimensioned10LBFGSCentralAbs(x[8]); a > m || a != a {
+			m = a
+		}
+		if a := variablyDimensioned10LBFGSCentralAbs(x[9]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1322,8 +1492,15 @@ func variablyDimensioned10LBFGSCentralMaxAbs(x *[10]float64) float64 {
 
 // variablyDimensioned10LBFGSCentralScaleBy sets x = c·x.
 func variablyDimensioned10LBFGSCentralScaleBy(x *[10]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
+		x[9] *= c
 	}
 }
 
@@ -1388,8 +1565,25 @@ func (r *variablyDimensioned10LBFGSCentralRiseTrend) contradicts() bool {
 // variablyDimensioned10LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func variablyDimensioned10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(variablyDimensioned10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(variablyDimensioned10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(variablyDimensioned10LBFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(variablyDimensioned10LBFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(variablyDimensioned10LBFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(variablyDimensioned10LBFGSCentralAbs(xt[8]-x[8]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[9]; !(variablyDimensioned10LBFGSCentralAbs(xt[9]-x[9]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1438,8 +1632,15 @@ func variablyDimensioned10LBFGSCentralTrialPoint(out, x *[10]float64, t float64,
 
 // variablyDimensioned10LBFGSCentralMoveTo sets out = x + t·d.
 func variablyDimensioned10LBFGSCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
+		out[9] = x[9] + t*d[9]
 	}
 }
 
@@ -1505,8 +1706,15 @@ func variablyDimensioned10LBFGSCentralExpandTrial(previous, current *variablyDim
 
 // variablyDimensioned10LBFGSCentralGradientChange sets out = a − b.
 func variablyDimensioned10LBFGSCentralGradientChange(out, a, b *[10]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
+		out[9] = a[9] - b[9]
 	}
 }
 

@@ -586,8 +586,15 @@ type watson6BFGSCentralDirection struct {
 
 func (s *watson6BFGSCentralDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][4] = 0
+			s.h[i][5] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +602,15 @@ func (s *watson6BFGSCentralDirection) reset() {
 }
 
 func (s *watson6BFGSCentralDirection) compute(g, d *[6]float64) {
-	for i := range s.h {
-		d[i] = -watson6BFGSCentralDot(&s.h[i], g)
+	{
+		for i := 0; i < 4; i += 4 {
+			d[i] = -watson6BFGSCentralDot(&s.h[i], g)
+			d[i+1] = -watson6BFGSCentralDot(&s.h[i+1], g)
+			d[i+2] = -watson6BFGSCentralDot(&s.h[i+2], g)
+			d[i+3] = -watson6BFGSCentralDot(&s.h[i+3], g)
+		}
+		d[4] = -watson6BFGSCentralDot(&s.h[4], g)
+		d[5] = -watson6BFGSCentralDot(&s.h[5], g)
 	}
 }
 
@@ -607,8 +621,15 @@ func (s *watson6BFGSCentralDirection) update(step, change *[6]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / watson6BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 4; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[4][4] = gamma
+			s.h[5][5] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +637,15 @@ func (s *watson6BFGSCentralDirection) update(step, change *[6]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [6]float64
-	for i := range s.h {
-		hy[i] = watson6BFGSCentralDot(&s.h[i], change)
+	{
+		for i := 0; i < 4; i += 4 {
+			hy[i] = watson6BFGSCentralDot(&s.h[i], change)
+			hy[i+1] = watson6BFGSCentralDot(&s.h[i+1], change)
+			hy[i+2] = watson6BFGSCentralDot(&s.h[i+2], change)
+			hy[i+3] = watson6BFGSCentralDot(&s.h[i+3], change)
+		}
+		hy[4] = watson6BFGSCentralDot(&s.h[4], change)
+		hy[5] = watson6BFGSCentralDot(&s.h[5], change)
 	}
 	outer := (rho*rho*watson6BFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +653,15 @@ func (s *watson6BFGSCentralDirection) update(step, change *[6]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 4; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][4] += a*step[4] - b*hy[4]
+			s.h[i][5] += a*step[5] - b*hy[5]
 		}
 	}
 }
@@ -643,8 +678,15 @@ func (s *watson6BFGSCentralDirection) firstTrial(t, slope, now float64) float64 
 // watson6BFGSCentralDot returns aᵀb.
 func watson6BFGSCentralDot(a, b *[6]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
+		s += a[5] * b[5]
 	}
 	return s
 }
@@ -699,8 +741,25 @@ func watson6BFGSCentralFinite(v float64) bool {
 
 // watson6BFGSCentralFiniteVec reports whether every component of x is finite.
 func watson6BFGSCentralFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !watson6BFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !watson6BFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !watson6BFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !watson6BFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !watson6BFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson6BFGSCentralFinite(x[4]) {
+			return false
+		}
+		if !watson6BFGSCentralFinite(x[5]) {
 			return false
 		}
 	}
@@ -875,8 +934,15 @@ func watson6BFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func watson6BFGSCentralNoiseLevel(x *[6]float64, fx float64, g *[6]float64) float64 {
 	sum := watson6BFGSCentralAbs(fx)
-	for i := range x {
-		sum += watson6BFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			sum += watson6BFGSCentralAbs(g[i] * x[i])
+			sum += watson6BFGSCentralAbs(g[i+1] * x[i+1])
+			sum += watson6BFGSCentralAbs(g[i+2] * x[i+2])
+			sum += watson6BFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += watson6BFGSCentralAbs(g[4] * x[4])
+		sum += watson6BFGSCentralAbs(g[5] * x[5])
 	}
 	return 4 * watson6BFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1069,29 @@ func watson6BFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
+		wide.ratio[5] *= 2
 	}
 	var doubled [6]float64
 	calls += watson6BFGSCentralDerivative(x, fx, g, diffs)
 	calls += watson6BFGSCentralDerivative(x, fx, &doubled, &wide)
 	watson6BFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson6BFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * watson6BFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson6BFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson6BFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson6BFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * watson6BFGSCentralAbs(g[4]-doubled[4])
+		e[5] += 3 * watson6BFGSCentralAbs(g[5]-doubled[5])
 	}
 	return calls, true
 }
@@ -1045,8 +1125,15 @@ func watson6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64
 func watson6BFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *watson6BFGSCentralDifferences) {
 	var h [6]float64
 	watson6BFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[4]) * h[4]
+		e[5] += 4 * watson6BFGSCentralUnitRoundoff * watson6BFGSCentralAbs(x[5]) * h[5]
 	}
 }
 
@@ -1074,10 +1161,39 @@ func watson6BFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *watson6B
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
 	scale := watson6BFGSCentralLarger(watson6BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson6BFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i])+e[i])*w)
+				floor = watson6BFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i+1]), 1) / scale
+				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = watson6BFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i+2]), 1) / scale
+				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = watson6BFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i+3]), 1) / scale
+				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = watson6BFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[4]), 1) / scale
+			measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[4])+e[4])*w)
+			floor = watson6BFGSCentralLarger(floor, e[4]*w)
+		}
+		{
+			w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[5]), 1) / scale
+			measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[5])+e[5])*w)
+			floor = watson6BFGSCentralLarger(floor, e[5]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1203,25 @@ func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64, diffs *watson6BFGSCentralDifferences) bool {
-	for i := range s {
-		if !(watson6BFGSCentralAbs(s[i]) <= tol*watson6BFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(watson6BFGSCentralAbs(s[i]) <= tol*watson6BFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson6BFGSCentralAbs(s[i+1]) <= tol*watson6BFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson6BFGSCentralAbs(s[i+2]) <= tol*watson6BFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson6BFGSCentralAbs(s[i+3]) <= tol*watson6BFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson6BFGSCentralAbs(s[4]) <= tol*watson6BFGSCentralStepScale(x[4], 4, diffs)) {
+			return false
+		}
+		if !(watson6BFGSCentralAbs(s[5]) <= tol*watson6BFGSCentralStepScale(x[5], 5, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1273,36 @@ func (f *watson6BFGSCentralStepFloor) at(x, d *[6]float64, diffs *watson6BFGSCen
 // step test, min over i of tol·watson6BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6BFGSCentralTinyStep(x, d *[6]float64, tol float64, diffs *watson6BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson6BFGSCentralStepScale(x[i], i, diffs) / watson6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson6BFGSCentralStepScale(x[i], i, diffs) / watson6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson6BFGSCentralStepScale(x[i+1], i+1, diffs) / watson6BFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson6BFGSCentralStepScale(x[i+2], i+2, diffs) / watson6BFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson6BFGSCentralStepScale(x[i+3], i+3, diffs) / watson6BFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * watson6BFGSCentralStepScale(x[4], 4, diffs) / watson6BFGSCentralAbs(d[4]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[5] != 0 {
+			if t := tol * watson6BFGSCentralStepScale(x[5], 5, diffs) / watson6BFGSCentralAbs(d[5]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1450,25 @@ func watson6BFGSCentralShrinkDirection(d, g *[6]float64) {
 // watson6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func watson6BFGSCentralMaxAbs(x *[6]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson6BFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := watson6BFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson6BFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson6BFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson6BFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson6BFGSCentralAbs(x[4]); a > m || a != a {
+			m = a
+		}
+		if a := watson6BFGSCentralAbs(x[5]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1477,15 @@ func watson6BFGSCentralMaxAbs(x *[6]float64) float64 {
 
 // watson6BFGSCentralScaleBy sets x = c·x.
 func watson6BFGSCentralScaleBy(x *[6]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
+		x[5] *= c
 	}
 }
 
@@ -1366,8 +1550,25 @@ func (r *watson6BFGSCentralRiseTrend) contradicts() bool {
 // watson6BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson6BFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson6BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(watson6BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson6BFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson6BFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson6BFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(watson6BFGSCentralAbs(xt[4]-x[4]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
+			return false
+		}
+		if want := t * d[5]; !(watson6BFGSCentralAbs(xt[5]-x[5]-want) <= 0.01*watson6BFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1617,15 @@ func watson6BFGSCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float64, 
 
 // watson6BFGSCentralMoveTo sets out = x + t·d.
 func watson6BFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
+		out[5] = x[5] + t*d[5]
 	}
 }
 
@@ -1483,8 +1691,15 @@ func watson6BFGSCentralExpandTrial(previous, current *watson6BFGSCentralLinePoin
 
 // watson6BFGSCentralGradientChange sets out = a − b.
 func watson6BFGSCentralGradientChange(out, a, b *[6]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
+		out[5] = a[5] - b[5]
 	}
 }
 

@@ -602,8 +602,15 @@ func (s *watson6LBFGSAnalyticDirection) compute(g, d *[6]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*watson6LBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[4] -= a * y[4]
+			q[5] -= a * y[5]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +618,15 @@ func (s *watson6LBFGSAnalyticDirection) compute(g, d *[6]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[4] *= s.gamma
+			q[5] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +637,15 @@ func (s *watson6LBFGSAnalyticDirection) compute(g, d *[6]float64) {
 		}
 		beta := s.rho[k] * watson6LBFGSAnalyticDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 4; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[4] += step[4] * c
+			q[5] += step[5] * c
 		}
 	}
 	watson6LBFGSAnalyticNegate(d, &q)
@@ -661,16 +682,30 @@ func (s *watson6LBFGSAnalyticDirection) firstTrial(t, slope, now float64) float6
 // watson6LBFGSAnalyticDot returns aᵀb.
 func watson6LBFGSAnalyticDot(a, b *[6]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[4] * b[4]
+		s += a[5] * b[5]
 	}
 	return s
 }
 
 // watson6LBFGSAnalyticNegate sets out = −x.
 func watson6LBFGSAnalyticNegate(out, x *[6]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[4] = -x[4]
+		out[5] = -x[5]
 	}
 }
 
@@ -718,8 +753,25 @@ func watson6LBFGSAnalyticFinite(v float64) bool {
 
 // watson6LBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func watson6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
-	for i := range x {
-		if !watson6LBFGSAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !watson6LBFGSAnalyticFinite(x[i]) {
+				return false
+			}
+			if !watson6LBFGSAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !watson6LBFGSAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !watson6LBFGSAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson6LBFGSAnalyticFinite(x[4]) {
+			return false
+		}
+		if !watson6LBFGSAnalyticFinite(x[5]) {
 			return false
 		}
 	}
@@ -773,15 +825,29 @@ func watson6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 4; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[4] *= 2
+		wide.ratio[5] *= 2
 	}
 	var doubled [6]float64
 	calls += watson6LBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += watson6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson6LBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson6LBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 3 * watson6LBFGSAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson6LBFGSAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson6LBFGSAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson6LBFGSAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[4] += 3 * watson6LBFGSAnalyticAbs(g[4]-doubled[4])
+		e[5] += 3 * watson6LBFGSAnalyticAbs(g[5]-doubled[5])
 	}
 	return calls, true
 }
@@ -789,8 +855,15 @@ func watson6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 // watson6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func watson6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[4] = 0
+		e[5] = 0
 	}
 }
 
@@ -811,8 +884,15 @@ func watson6LBFGSAnalyticAbs(v float64) float64 {
 func watson6LBFGSAnalyticRoundingFloor(x, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
 	var h [6]float64
 	watson6LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			e[i] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[4] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[4]) * h[4]
+		e[5] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[5]) * h[5]
 	}
 }
 
@@ -914,10 +994,39 @@ func watson6LBFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *watson
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
 	scale := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson6LBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i])+e[i])*w)
+				floor = watson6LBFGSAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i+1]), 1) / scale
+				measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = watson6LBFGSAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i+2]), 1) / scale
+				measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = watson6LBFGSAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i+3]), 1) / scale
+				measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = watson6LBFGSAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[4]), 1) / scale
+			measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[4])+e[4])*w)
+			floor = watson6LBFGSAnalyticLarger(floor, e[4]*w)
+		}
+		{
+			w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[5]), 1) / scale
+			measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[5])+e[5])*w)
+			floor = watson6LBFGSAnalyticLarger(floor, e[5]*w)
+		}
 	}
 	return measure, floor
 }
@@ -927,8 +1036,25 @@ func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64, diffs *watson6LBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*watson6LBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*watson6LBFGSAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson6LBFGSAnalyticAbs(s[i+1]) <= tol*watson6LBFGSAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson6LBFGSAnalyticAbs(s[i+2]) <= tol*watson6LBFGSAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson6LBFGSAnalyticAbs(s[i+3]) <= tol*watson6LBFGSAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson6LBFGSAnalyticAbs(s[4]) <= tol*watson6LBFGSAnalyticStepScale(x[4], 4, diffs)) {
+			return false
+		}
+		if !(watson6LBFGSAnalyticAbs(s[5]) <= tol*watson6LBFGSAnalyticStepScale(x[5], 5, diffs)) {
 			return false
 		}
 	}
@@ -980,9 +1106,36 @@ func (f *watson6LBFGSAnalyticStepFloor) at(x, d *[6]float64, diffs *watson6LBFGS
 // step test, min over i of tol·watson6LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64, diffs *watson6LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson6LBFGSAnalyticStepScale(x[i], i, diffs) / watson6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 4; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson6LBFGSAnalyticStepScale(x[i], i, diffs) / watson6LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson6LBFGSAnalyticStepScale(x[i+1], i+1, diffs) / watson6LBFGSAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson6LBFGSAnalyticStepScale(x[i+2], i+2, diffs) / watson6LBFGSAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson6LBFGSAnalyticStepScale(x[i+3], i+3, diffs) / watson6LBFGSAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[4] != 0 {
+			if t := tol * watson6LBFGSAnalyticStepScale(x[4], 4, diffs) / watson6LBFGSAnalyticAbs(d[4]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+		if d[5] != 0 {
+			if t := tol * watson6LBFGSAnalyticStepScale(x[5], 5, diffs) / watson6LBFGSAnalyticAbs(d[5]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,8 +1283,25 @@ func watson6LBFGSAnalyticShrinkDirection(d, g *[6]float64) {
 // watson6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func watson6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 4; i += 4 {
+			if a := watson6LBFGSAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson6LBFGSAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson6LBFGSAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson6LBFGSAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson6LBFGSAnalyticAbs(x[4]); a > m || a != a {
+			m = a
+		}
+		if a := watson6LBFGSAnalyticAbs(x[5]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1140,8 +1310,15 @@ func watson6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
 
 // watson6LBFGSAnalyticScaleBy sets x = c·x.
 func watson6LBFGSAnalyticScaleBy(x *[6]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 4; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[4] *= c
+		x[5] *= c
 	}
 }
 
@@ -1206,8 +1383,25 @@ func (r *watson6LBFGSAnalyticRiseTrend) contradicts() bool {
 // watson6LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson6LBFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson6LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
+	{
+		for i := 0; i < 4; i += 4 {
+			if want := t * d[i]; !(watson6LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson6LBFGSAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson6LBFGSAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson6LBFGSAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[4]; !(watson6LBFGSAnalyticAbs(xt[4]-x[4]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
+			return false
+		}
+		if want := t * d[5]; !(watson6LBFGSAnalyticAbs(xt[5]-x[5]-want) <= 0.01*watson6LBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1256,8 +1450,15 @@ func watson6LBFGSAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64
 
 // watson6LBFGSAnalyticMoveTo sets out = x + t·d.
 func watson6LBFGSAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[4] = x[4] + t*d[4]
+		out[5] = x[5] + t*d[5]
 	}
 }
 
@@ -1323,8 +1524,15 @@ func watson6LBFGSAnalyticExpandTrial(previous, current *watson6LBFGSAnalyticLine
 
 // watson6LBFGSAnalyticGradientChange sets out = a − b.
 func watson6LBFGSAnalyticGradientChange(out, a, b *[6]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[4] = a[4] - b[4]
+		out[5] = a[5] - b[5]
 	}
 }
 

@@ -586,8 +586,14 @@ type watson9BFGSAnalyticDirection struct {
 
 func (s *watson9BFGSAnalyticDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][8] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +601,14 @@ func (s *watson9BFGSAnalyticDirection) reset() {
 }
 
 func (s *watson9BFGSAnalyticDirection) compute(g, d *[9]float64) {
-	for i := range s.h {
-		d[i] = -watson9BFGSAnalyticDot(&s.h[i], g)
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -watson9BFGSAnalyticDot(&s.h[i], g)
+			d[i+1] = -watson9BFGSAnalyticDot(&s.h[i+1], g)
+			d[i+2] = -watson9BFGSAnalyticDot(&s.h[i+2], g)
+			d[i+3] = -watson9BFGSAnalyticDot(&s.h[i+3], g)
+		}
+		d[8] = -watson9BFGSAnalyticDot(&s.h[8], g)
 	}
 }
 
@@ -607,8 +619,14 @@ func (s *watson9BFGSAnalyticDirection) update(step, change *[9]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / watson9BFGSAnalyticDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[8][8] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +634,14 @@ func (s *watson9BFGSAnalyticDirection) update(step, change *[9]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [9]float64
-	for i := range s.h {
-		hy[i] = watson9BFGSAnalyticDot(&s.h[i], change)
+	{
+		for i := 0; i < 8; i += 4 {
+			hy[i] = watson9BFGSAnalyticDot(&s.h[i], change)
+			hy[i+1] = watson9BFGSAnalyticDot(&s.h[i+1], change)
+			hy[i+2] = watson9BFGSAnalyticDot(&s.h[i+2], change)
+			hy[i+3] = watson9BFGSAnalyticDot(&s.h[i+3], change)
+		}
+		hy[8] = watson9BFGSAnalyticDot(&s.h[8], change)
 	}
 	outer := (rho*rho*watson9BFGSAnalyticDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +649,14 @@ func (s *watson9BFGSAnalyticDirection) update(step, change *[9]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][8] += a*step[8] - b*hy[8]
 		}
 	}
 }
@@ -643,8 +673,14 @@ func (s *watson9BFGSAnalyticDirection) firstTrial(t, slope, now float64) float64
 // watson9BFGSAnalyticDot returns aᵀb.
 func watson9BFGSAnalyticDot(a, b *[9]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
 	}
 	return s
 }
@@ -699,8 +735,22 @@ func watson9BFGSAnalyticFinite(v float64) bool {
 
 // watson9BFGSAnalyticFiniteVec reports whether every component of x is finite.
 func watson9BFGSAnalyticFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9BFGSAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !watson9BFGSAnalyticFinite(x[i]) {
+				return false
+			}
+			if !watson9BFGSAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !watson9BFGSAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !watson9BFGSAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson9BFGSAnalyticFinite(x[8]) {
 			return false
 		}
 	}
@@ -754,15 +804,27 @@ func watson9BFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
 	}
 	var doubled [9]float64
 	calls += watson9BFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += watson9BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson9BFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson9BFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * watson9BFGSAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson9BFGSAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson9BFGSAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson9BFGSAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * watson9BFGSAnalyticAbs(g[8]-doubled[8])
 	}
 	return calls, true
 }
@@ -770,8 +832,14 @@ func watson9BFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 // watson9BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func watson9BFGSAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
 	}
 }
 
@@ -792,8 +860,14 @@ func watson9BFGSAnalyticAbs(v float64) float64 {
 func watson9BFGSAnalyticRoundingFloor(x, g, e *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
 	var h [9]float64
 	watson9BFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson9BFGSAnalyticUnitRoundoff * watson9BFGSAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * watson9BFGSAnalyticUnitRoundoff * watson9BFGSAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson9BFGSAnalyticUnitRoundoff * watson9BFGSAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson9BFGSAnalyticUnitRoundoff * watson9BFGSAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson9BFGSAnalyticUnitRoundoff * watson9BFGSAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * watson9BFGSAnalyticUnitRoundoff * watson9BFGSAnalyticAbs(x[8]) * h[8]
 	}
 }
 
@@ -895,10 +969,34 @@ func watson9BFGSAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson9
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9BFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
 	scale := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson9BFGSAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i])+e[i])*w)
+				floor = watson9BFGSAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i+1]), 1) / scale
+				measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = watson9BFGSAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i+2]), 1) / scale
+				measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = watson9BFGSAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i+3]), 1) / scale
+				measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = watson9BFGSAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[8]), 1) / scale
+			measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[8])+e[8])*w)
+			floor = watson9BFGSAnalyticLarger(floor, e[8]*w)
+		}
 	}
 	return measure, floor
 }
@@ -908,8 +1006,22 @@ func watson9BFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64, diffs *watson9BFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*watson9BFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(watson9BFGSAnalyticAbs(s[i]) <= tol*watson9BFGSAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson9BFGSAnalyticAbs(s[i+1]) <= tol*watson9BFGSAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson9BFGSAnalyticAbs(s[i+2]) <= tol*watson9BFGSAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson9BFGSAnalyticAbs(s[i+3]) <= tol*watson9BFGSAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson9BFGSAnalyticAbs(s[8]) <= tol*watson9BFGSAnalyticStepScale(x[8], 8, diffs)) {
 			return false
 		}
 	}
@@ -961,9 +1073,31 @@ func (f *watson9BFGSAnalyticStepFloor) at(x, d *[9]float64, diffs *watson9BFGSAn
 // step test, min over i of tol·watson9BFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9BFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson9BFGSAnalyticStepScale(x[i], i, diffs) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson9BFGSAnalyticStepScale(x[i], i, diffs) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson9BFGSAnalyticStepScale(x[i+1], i+1, diffs) / watson9BFGSAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson9BFGSAnalyticStepScale(x[i+2], i+2, diffs) / watson9BFGSAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson9BFGSAnalyticStepScale(x[i+3], i+3, diffs) / watson9BFGSAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * watson9BFGSAnalyticStepScale(x[8], 8, diffs) / watson9BFGSAnalyticAbs(d[8]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1111,8 +1245,22 @@ func watson9BFGSAnalyticShrinkDirection(d, g *[9]float64) {
 // watson9BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func watson9BFGSAnalyticMaxAbs(x *[9]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson9BFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := watson9BFGSAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson9BFGSAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson9BFGSAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson9BFGSAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson9BFGSAnalyticAbs(x[8]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1121,8 +1269,14 @@ func watson9BFGSAnalyticMaxAbs(x *[9]float64) float64 {
 
 // watson9BFGSAnalyticScaleBy sets x = c·x.
 func watson9BFGSAnalyticScaleBy(x *[9]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
 	}
 }
 
@@ -1187,8 +1341,22 @@ func (r *watson9BFGSAnalyticRiseTrend) contradicts() bool {
 // watson9BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson9BFGSAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9BFGSAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(watson9BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9BFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson9BFGSAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson9BFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson9BFGSAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson9BFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson9BFGSAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson9BFGSAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(watson9BFGSAnalyticAbs(xt[8]-x[8]-want) <= 0.01*watson9BFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1237,8 +1405,14 @@ func watson9BFGSAnalyticTrialPoint(out, x *[9]float64, t float64, d *[9]float64,
 
 // watson9BFGSAnalyticMoveTo sets out = x + t·d.
 func watson9BFGSAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
 	}
 }
 
@@ -1304,8 +1478,14 @@ func watson9BFGSAnalyticExpandTrial(previous, current *watson9BFGSAnalyticLinePo
 
 // watson9BFGSAnalyticGradientChange sets out = a − b.
 func watson9BFGSAnalyticGradientChange(out, a, b *[9]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
 	}
 }
 

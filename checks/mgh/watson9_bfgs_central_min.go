@@ -586,8 +586,14 @@ type watson9BFGSCentralDirection struct {
 
 func (s *watson9BFGSCentralDirection) reset() {
 	for i := range s.h {
-		for j := range s.h[i] {
-			s.h[i][j] = 0
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] = 0
+				s.h[i][j+1] = 0
+				s.h[i][j+2] = 0
+				s.h[i][j+3] = 0
+			}
+			s.h[i][8] = 0
 		}
 		s.h[i][i] = 1
 	}
@@ -595,8 +601,14 @@ func (s *watson9BFGSCentralDirection) reset() {
 }
 
 func (s *watson9BFGSCentralDirection) compute(g, d *[9]float64) {
-	for i := range s.h {
-		d[i] = -watson9BFGSCentralDot(&s.h[i], g)
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -watson9BFGSCentralDot(&s.h[i], g)
+			d[i+1] = -watson9BFGSCentralDot(&s.h[i+1], g)
+			d[i+2] = -watson9BFGSCentralDot(&s.h[i+2], g)
+			d[i+3] = -watson9BFGSCentralDot(&s.h[i+3], g)
+		}
+		d[8] = -watson9BFGSCentralDot(&s.h[8], g)
 	}
 }
 
@@ -607,8 +619,14 @@ func (s *watson9BFGSCentralDirection) update(step, change *[9]float64) {
 	}
 	if !s.scaled {
 		gamma := sy / watson9BFGSCentralDot(change, change) // N&W eq. 6.20
-		for i := range s.h {
-			s.h[i][i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.h[i][i] = gamma
+				s.h[i+1][i+1] = gamma
+				s.h[i+2][i+2] = gamma
+				s.h[i+3][i+3] = gamma
+			}
+			s.h[8][8] = gamma
 		}
 		s.scaled = true
 	}
@@ -616,8 +634,14 @@ func (s *watson9BFGSCentralDirection) update(step, change *[9]float64) {
 	// With hy = H·y, eq. 6.17 expands to
 	// H₊ = H − ρ(hy sᵀ + s hyᵀ) + (ρ² yᵀhy + ρ) s sᵀ.
 	var hy [9]float64
-	for i := range s.h {
-		hy[i] = watson9BFGSCentralDot(&s.h[i], change)
+	{
+		for i := 0; i < 8; i += 4 {
+			hy[i] = watson9BFGSCentralDot(&s.h[i], change)
+			hy[i+1] = watson9BFGSCentralDot(&s.h[i+1], change)
+			hy[i+2] = watson9BFGSCentralDot(&s.h[i+2], change)
+			hy[i+3] = watson9BFGSCentralDot(&s.h[i+3], change)
+		}
+		hy[8] = watson9BFGSCentralDot(&s.h[8], change)
 	}
 	outer := (rho*rho*watson9BFGSCentralDot(change, &hy) + rho)
 	for i := range s.h {
@@ -625,8 +649,14 @@ func (s *watson9BFGSCentralDirection) update(step, change *[9]float64) {
 		// two multiply-adds per element instead of six multiplies and
 		// three adds
 		a, b := outer*step[i]-rho*hy[i], rho*step[i]
-		for j := range s.h[i] {
-			s.h[i][j] += a*step[j] - b*hy[j] // N&W eq. 6.17
+		{
+			for j := 0; j < 8; j += 4 {
+				s.h[i][j] += a*step[j] - b*hy[j]
+				s.h[i][j+1] += a*step[j+1] - b*hy[j+1]
+				s.h[i][j+2] += a*step[j+2] - b*hy[j+2]
+				s.h[i][j+3] += a*step[j+3] - b*hy[j+3] // N&W eq. 6.17
+			}
+			s.h[i][8] += a*step[8] - b*hy[8]
 		}
 	}
 }
@@ -643,8 +673,14 @@ func (s *watson9BFGSCentralDirection) firstTrial(t, slope, now float64) float64 
 // watson9BFGSCentralDot returns aᵀb.
 func watson9BFGSCentralDot(a, b *[9]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
 	}
 	return s
 }
@@ -699,8 +735,22 @@ func watson9BFGSCentralFinite(v float64) bool {
 
 // watson9BFGSCentralFiniteVec reports whether every component of x is finite.
 func watson9BFGSCentralFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9BFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !watson9BFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !watson9BFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !watson9BFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !watson9BFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson9BFGSCentralFinite(x[8]) {
 			return false
 		}
 	}
@@ -875,8 +925,14 @@ func watson9BFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func watson9BFGSCentralNoiseLevel(x *[9]float64, fx float64, g *[9]float64) float64 {
 	sum := watson9BFGSCentralAbs(fx)
-	for i := range x {
-		sum += watson9BFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += watson9BFGSCentralAbs(g[i] * x[i])
+			sum += watson9BFGSCentralAbs(g[i+1] * x[i+1])
+			sum += watson9BFGSCentralAbs(g[i+2] * x[i+2])
+			sum += watson9BFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += watson9BFGSCentralAbs(g[8] * x[8])
 	}
 	return 4 * watson9BFGSCentralUnitRoundoff * sum
 }
@@ -1003,15 +1059,27 @@ func watson9BFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
 	}
 	var doubled [9]float64
 	calls += watson9BFGSCentralDerivative(x, fx, g, diffs)
 	calls += watson9BFGSCentralDerivative(x, fx, &doubled, &wide)
 	watson9BFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson9BFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * watson9BFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson9BFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson9BFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson9BFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * watson9BFGSCentralAbs(g[8]-doubled[8])
 	}
 	return calls, true
 }
@@ -1045,8 +1113,14 @@ func watson9BFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64
 func watson9BFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9BFGSCentralDifferences) {
 	var h [9]float64
 	watson9BFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[8]) * h[8]
 	}
 }
 
@@ -1074,10 +1148,34 @@ func watson9BFGSCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9B
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
 	scale := watson9BFGSCentralLarger(watson9BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson9BFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i])+e[i])*w)
+				floor = watson9BFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i+1]), 1) / scale
+				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = watson9BFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i+2]), 1) / scale
+				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = watson9BFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i+3]), 1) / scale
+				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = watson9BFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[8]), 1) / scale
+			measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[8])+e[8])*w)
+			floor = watson9BFGSCentralLarger(floor, e[8]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1087,8 +1185,22 @@ func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson9BFGSCentralStepWithin(s, x *[9]float64, tol float64, diffs *watson9BFGSCentralDifferences) bool {
-	for i := range s {
-		if !(watson9BFGSCentralAbs(s[i]) <= tol*watson9BFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(watson9BFGSCentralAbs(s[i]) <= tol*watson9BFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson9BFGSCentralAbs(s[i+1]) <= tol*watson9BFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson9BFGSCentralAbs(s[i+2]) <= tol*watson9BFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson9BFGSCentralAbs(s[i+3]) <= tol*watson9BFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson9BFGSCentralAbs(s[8]) <= tol*watson9BFGSCentralStepScale(x[8], 8, diffs)) {
 			return false
 		}
 	}
@@ -1140,9 +1252,31 @@ func (f *watson9BFGSCentralStepFloor) at(x, d *[9]float64, diffs *watson9BFGSCen
 // step test, min over i of tol·watson9BFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9BFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson9BFGSCentralStepScale(x[i], i, diffs) / watson9BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson9BFGSCentralStepScale(x[i], i, diffs) / watson9BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson9BFGSCentralStepScale(x[i+1], i+1, diffs) / watson9BFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson9BFGSCentralStepScale(x[i+2], i+2, diffs) / watson9BFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson9BFGSCentralStepScale(x[i+3], i+3, diffs) / watson9BFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * watson9BFGSCentralStepScale(x[8], 8, diffs) / watson9BFGSCentralAbs(d[8]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1290,8 +1424,22 @@ func watson9BFGSCentralShrinkDirection(d, g *[9]float64) {
 // watson9BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func watson9BFGSCentralMaxAbs(x *[9]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson9BFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := watson9BFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson9BFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson9BFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson9BFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson9BFGSCentralAbs(x[8]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1300,8 +1448,14 @@ func watson9BFGSCentralMaxAbs(x *[9]float64) float64 {
 
 // watson9BFGSCentralScaleBy sets x = c·x.
 func watson9BFGSCentralScaleBy(x *[9]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
 	}
 }
 
@@ -1366,8 +1520,22 @@ func (r *watson9BFGSCentralRiseTrend) contradicts() bool {
 // watson9BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson9BFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(watson9BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson9BFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson9BFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson9BFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(watson9BFGSCentralAbs(xt[8]-x[8]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1416,8 +1584,14 @@ func watson9BFGSCentralTrialPoint(out, x *[9]float64, t float64, d *[9]float64, 
 
 // watson9BFGSCentralMoveTo sets out = x + t·d.
 func watson9BFGSCentralMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
 	}
 }
 
@@ -1483,8 +1657,14 @@ func watson9BFGSCentralExpandTrial(previous, current *watson9BFGSCentralLinePoin
 
 // watson9BFGSCentralGradientChange sets out = a − b.
 func watson9BFGSCentralGradientChange(out, a, b *[9]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
 	}
 }
 

@@ -618,8 +618,14 @@ type watson9CGAnalyticDirection struct {
 func (s *watson9CGAnalyticDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 8; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[8] = 1
 	}
 }
 
@@ -627,16 +633,28 @@ func (s *watson9CGAnalyticDirection) compute(g, d *[9]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 8; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[8] /= s.curvature[8]
 		}
 	}
 	gz, zy := watson9CGAnalyticDot(g, &z), watson9CGAnalyticDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && watson9CGAnalyticAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = watson9CGAnalyticLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[8] = -z[8] + beta*s.previous[8]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +684,14 @@ func (s *watson9CGAnalyticDirection) update(step, change *[9]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[8] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +726,14 @@ func (s *watson9CGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 // watson9CGAnalyticDot returns aᵀb.
 func watson9CGAnalyticDot(a, b *[9]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
 	}
 	return s
 }
@@ -782,8 +812,22 @@ func watson9CGAnalyticValue(x, g *[9]float64, diffs *watson9CGAnalyticDifference
 
 // watson9CGAnalyticFiniteVec reports whether every component of x is finite.
 func watson9CGAnalyticFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9CGAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !watson9CGAnalyticFinite(x[i]) {
+				return false
+			}
+			if !watson9CGAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !watson9CGAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !watson9CGAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson9CGAnalyticFinite(x[8]) {
 			return false
 		}
 	}
@@ -837,15 +881,27 @@ func watson9CGAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]float6
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
 	}
 	var doubled [9]float64
 	calls += watson9CGAnalyticDerivative(x, fx, g, diffs)
 	calls += watson9CGAnalyticDerivative(x, fx, &doubled, &wide)
 	watson9CGAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson9CGAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * watson9CGAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson9CGAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson9CGAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson9CGAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * watson9CGAnalyticAbs(g[8]-doubled[8])
 	}
 	return calls, true
 }
@@ -853,8 +909,14 @@ func watson9CGAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]float6
 // watson9CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func watson9CGAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
 	}
 }
 
@@ -867,8 +929,14 @@ func watson9CGAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64,
 func watson9CGAnalyticRoundingFloor(x, g, e *[9]float64, diffs *watson9CGAnalyticDifferences) {
 	var h [9]float64
 	watson9CGAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[8]) * h[8]
 	}
 }
 
@@ -960,10 +1028,34 @@ func watson9CGAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson9CG
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
 	scale := watson9CGAnalyticLarger(watson9CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i])+e[i])*w)
-		floor = watson9CGAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i])+e[i])*w)
+				floor = watson9CGAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i+1]), 1) / scale
+				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = watson9CGAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i+2]), 1) / scale
+				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = watson9CGAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i+3]), 1) / scale
+				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = watson9CGAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[8]), 1) / scale
+			measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[8])+e[8])*w)
+			floor = watson9CGAnalyticLarger(floor, e[8]*w)
+		}
 	}
 	return measure, floor
 }
@@ -973,8 +1065,22 @@ func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure,
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64, diffs *watson9CGAnalyticDifferences) bool {
-	for i := range s {
-		if !(watson9CGAnalyticAbs(s[i]) <= tol*watson9CGAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(watson9CGAnalyticAbs(s[i]) <= tol*watson9CGAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson9CGAnalyticAbs(s[i+1]) <= tol*watson9CGAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson9CGAnalyticAbs(s[i+2]) <= tol*watson9CGAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson9CGAnalyticAbs(s[i+3]) <= tol*watson9CGAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson9CGAnalyticAbs(s[8]) <= tol*watson9CGAnalyticStepScale(x[8], 8, diffs)) {
 			return false
 		}
 	}
@@ -1026,9 +1132,31 @@ func (f *watson9CGAnalyticStepFloor) at(x, d *[9]float64, diffs *watson9CGAnalyt
 // step test, min over i of tol·watson9CGAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson9CGAnalyticStepScale(x[i], i, diffs) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson9CGAnalyticStepScale(x[i], i, diffs) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson9CGAnalyticStepScale(x[i+1], i+1, diffs) / watson9CGAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson9CGAnalyticStepScale(x[i+2], i+2, diffs) / watson9CGAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson9CGAnalyticStepScale(x[i+3], i+3, diffs) / watson9CGAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * watson9CGAnalyticStepScale(x[8], 8, diffs) / watson9CGAnalyticAbs(d[8]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1176,8 +1304,22 @@ func watson9CGAnalyticShrinkDirection(d, g *[9]float64) {
 // watson9CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func watson9CGAnalyticMaxAbs(x *[9]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson9CGAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := watson9CGAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson9CGAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson9CGAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson9CGAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson9CGAnalyticAbs(x[8]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1186,8 +1328,14 @@ func watson9CGAnalyticMaxAbs(x *[9]float64) float64 {
 
 // watson9CGAnalyticScaleBy sets x = c·x.
 func watson9CGAnalyticScaleBy(x *[9]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
 	}
 }
 
@@ -1252,8 +1400,22 @@ func (r *watson9CGAnalyticRiseTrend) contradicts() bool {
 // watson9CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson9CGAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9CGAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(watson9CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson9CGAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson9CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson9CGAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson9CGAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson9CGAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson9CGAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(watson9CGAnalyticAbs(xt[8]-x[8]-want) <= 0.01*watson9CGAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1302,8 +1464,14 @@ func watson9CGAnalyticTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b
 
 // watson9CGAnalyticMoveTo sets out = x + t·d.
 func watson9CGAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
 	}
 }
 
@@ -1369,8 +1537,14 @@ func watson9CGAnalyticExpandTrial(previous, current *watson9CGAnalyticLinePoint)
 
 // watson9CGAnalyticGradientChange sets out = a − b.
 func watson9CGAnalyticGradientChange(out, a, b *[9]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
 	}
 }
 

@@ -618,8 +618,14 @@ type watson9CGCentralDirection struct {
 func (s *watson9CGCentralDirection) reset() {
 	s.fresh = true
 	s.scaled, s.rescaled = false, false
-	for i := range s.curvature {
-		s.curvature[i] = 1
+	{
+		for i := 0; i < 8; i += 4 {
+			s.curvature[i] = 1
+			s.curvature[i+1] = 1
+			s.curvature[i+2] = 1
+			s.curvature[i+3] = 1
+		}
+		s.curvature[8] = 1
 	}
 }
 
@@ -627,16 +633,28 @@ func (s *watson9CGCentralDirection) compute(g, d *[9]float64) {
 	var beta float64
 	z := *g
 	if s.rescaled {
-		for i := range z {
-			z[i] /= s.curvature[i] // z = P g, P = diag(1/b)
+		{
+			for i := 0; i < 8; i += 4 {
+				z[i] /= s.curvature[i]
+				z[i+1] /= s.curvature[i+1]
+				z[i+2] /= s.curvature[i+2]
+				z[i+3] /= s.curvature[i+3] // z = P g, P = diag(1/b)
+			}
+			z[8] /= s.curvature[8]
 		}
 	}
 	gz, zy := watson9CGCentralDot(g, &z), watson9CGCentralDot(&z, &s.change)
 	if !s.fresh && s.squared > 0 && watson9CGCentralAbs(gz-zy) < 0.1*gz { // N&W eq. 5.52 in P's metric: |zᵀg₋₁| < ν zᵀg, zᵀg₋₁ = zᵀg − zᵀy
 		beta = watson9CGCentralLarger(zy/s.squared, 0) // N&W eq. 5.45 (PR+), preconditioned (§5.2)
 	}
-	for i := range d {
-		d[i] = -z[i] + beta*s.previous[i] // N&W eq. 5.44, preconditioned
+	{
+		for i := 0; i < 8; i += 4 {
+			d[i] = -z[i] + beta*s.previous[i]
+			d[i+1] = -z[i+1] + beta*s.previous[i+1]
+			d[i+2] = -z[i+2] + beta*s.previous[i+2]
+			d[i+3] = -z[i+3] + beta*s.previous[i+3] // N&W eq. 5.44, preconditioned
+		}
+		d[8] = -z[8] + beta*s.previous[8]
 	}
 	s.fresh = false
 	s.previous = *d
@@ -666,8 +684,14 @@ func (s *watson9CGCentralDirection) update(step, change *[9]float64) {
 	}
 	if !s.scaled {
 		gamma := yy / sy // inverse of N&W eq. 6.20
-		for i := range s.curvature {
-			s.curvature[i] = gamma
+		{
+			for i := 0; i < 8; i += 4 {
+				s.curvature[i] = gamma
+				s.curvature[i+1] = gamma
+				s.curvature[i+2] = gamma
+				s.curvature[i+3] = gamma
+			}
+			s.curvature[8] = gamma
 		}
 		sbs = gamma * ss
 		s.scaled = true
@@ -702,8 +726,14 @@ func (s *watson9CGCentralDirection) firstTrial(t, slope, now float64) float64 {
 // watson9CGCentralDot returns aᵀb.
 func watson9CGCentralDot(a, b *[9]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
 	}
 	return s
 }
@@ -782,8 +812,22 @@ func watson9CGCentralValue(x, g *[9]float64, diffs *watson9CGCentralDifferences)
 
 // watson9CGCentralFiniteVec reports whether every component of x is finite.
 func watson9CGCentralFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9CGCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !watson9CGCentralFinite(x[i]) {
+				return false
+			}
+			if !watson9CGCentralFinite(x[i+1]) {
+				return false
+			}
+			if !watson9CGCentralFinite(x[i+2]) {
+				return false
+			}
+			if !watson9CGCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson9CGCentralFinite(x[8]) {
 			return false
 		}
 	}
@@ -940,8 +984,14 @@ func watson9CGCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func watson9CGCentralNoiseLevel(x *[9]float64, fx float64, g *[9]float64) float64 {
 	sum := watson9CGCentralAbs(fx)
-	for i := range x {
-		sum += watson9CGCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += watson9CGCentralAbs(g[i] * x[i])
+			sum += watson9CGCentralAbs(g[i+1] * x[i+1])
+			sum += watson9CGCentralAbs(g[i+2] * x[i+2])
+			sum += watson9CGCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += watson9CGCentralAbs(g[8] * x[8])
 	}
 	return 4 * watson9CGCentralUnitRoundoff * sum
 }
@@ -1068,15 +1118,27 @@ func watson9CGCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float64
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
 	}
 	var doubled [9]float64
 	calls += watson9CGCentralDerivative(x, fx, g, diffs)
 	calls += watson9CGCentralDerivative(x, fx, &doubled, &wide)
 	watson9CGCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson9CGCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * watson9CGCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson9CGCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson9CGCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson9CGCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * watson9CGCentralAbs(g[8]-doubled[8])
 	}
 	return calls, true
 }
@@ -1110,8 +1172,14 @@ func watson9CGCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, 
 func watson9CGCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9CGCentralDifferences) {
 	var h [9]float64
 	watson9CGCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson9CGCentralUnitRoundoff * watson9CGCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * watson9CGCentralUnitRoundoff * watson9CGCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson9CGCentralUnitRoundoff * watson9CGCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson9CGCentralUnitRoundoff * watson9CGCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson9CGCentralUnitRoundoff * watson9CGCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * watson9CGCentralUnitRoundoff * watson9CGCentralAbs(x[8]) * h[8]
 	}
 }
 
@@ -1139,10 +1207,34 @@ func watson9CGCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9CGC
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9CGCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
 	scale := watson9CGCentralLarger(watson9CGCentralAbs(fx), 1)
-	for i := range g {
-		w := watson9CGCentralLarger(watson9CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i])+e[i])*w)
-		floor = watson9CGCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := watson9CGCentralLarger(watson9CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i])+e[i])*w)
+				floor = watson9CGCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := watson9CGCentralLarger(watson9CGCentralAbs(x[i+1]), 1) / scale
+				measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i+1])+e[i+1])*w)
+				floor = watson9CGCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson9CGCentralLarger(watson9CGCentralAbs(x[i+2]), 1) / scale
+				measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i+2])+e[i+2])*w)
+				floor = watson9CGCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson9CGCentralLarger(watson9CGCentralAbs(x[i+3]), 1) / scale
+				measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i+3])+e[i+3])*w)
+				floor = watson9CGCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson9CGCentralLarger(watson9CGCentralAbs(x[8]), 1) / scale
+			measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[8])+e[8])*w)
+			floor = watson9CGCentralLarger(floor, e[8]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1152,8 +1244,22 @@ func watson9CGCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, 
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson9CGCentralStepWithin(s, x *[9]float64, tol float64, diffs *watson9CGCentralDifferences) bool {
-	for i := range s {
-		if !(watson9CGCentralAbs(s[i]) <= tol*watson9CGCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(watson9CGCentralAbs(s[i]) <= tol*watson9CGCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson9CGCentralAbs(s[i+1]) <= tol*watson9CGCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson9CGCentralAbs(s[i+2]) <= tol*watson9CGCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson9CGCentralAbs(s[i+3]) <= tol*watson9CGCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson9CGCentralAbs(s[8]) <= tol*watson9CGCentralStepScale(x[8], 8, diffs)) {
 			return false
 		}
 	}
@@ -1205,9 +1311,31 @@ func (f *watson9CGCentralStepFloor) at(x, d *[9]float64, diffs *watson9CGCentral
 // step test, min over i of tol·watson9CGCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9CGCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9CGCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson9CGCentralStepScale(x[i], i, diffs) / watson9CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson9CGCentralStepScale(x[i], i, diffs) / watson9CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson9CGCentralStepScale(x[i+1], i+1, diffs) / watson9CGCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson9CGCentralStepScale(x[i+2], i+2, diffs) / watson9CGCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson9CGCentralStepScale(x[i+3], i+3, diffs) / watson9CGCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * watson9CGCentralStepScale(x[8], 8, diffs) / watson9CGCentralAbs(d[8]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1355,8 +1483,22 @@ func watson9CGCentralShrinkDirection(d, g *[9]float64) {
 // watson9CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func watson9CGCentralMaxAbs(x *[9]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson9CGCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := watson9CGCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson9CGCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson9CGCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson9CGCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson9CGCentralAbs(x[8]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1365,8 +1507,14 @@ func watson9CGCentralMaxAbs(x *[9]float64) float64 {
 
 // watson9CGCentralScaleBy sets x = c·x.
 func watson9CGCentralScaleBy(x *[9]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
 	}
 }
 
@@ -1431,8 +1579,22 @@ func (r *watson9CGCentralRiseTrend) contradicts() bool {
 // watson9CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson9CGCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9CGCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9CGCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(watson9CGCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9CGCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson9CGCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson9CGCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson9CGCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson9CGCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson9CGCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson9CGCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(watson9CGCentralAbs(xt[8]-x[8]-want) <= 0.01*watson9CGCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1481,8 +1643,14 @@ func watson9CGCentralTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b 
 
 // watson9CGCentralMoveTo sets out = x + t·d.
 func watson9CGCentralMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
 	}
 }
 
@@ -1548,8 +1716,14 @@ func watson9CGCentralExpandTrial(previous, current *watson9CGCentralLinePoint) f
 
 // watson9CGCentralGradientChange sets out = a − b.
 func watson9CGCentralGradientChange(out, a, b *[9]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
 	}
 }
 

@@ -602,8 +602,14 @@ func (s *watson9LBFGSAnalyticDirection) compute(g, d *[9]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*watson9LBFGSAnalyticDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[8] -= a * y[8]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +617,14 @@ func (s *watson9LBFGSAnalyticDirection) compute(g, d *[9]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[8] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +635,14 @@ func (s *watson9LBFGSAnalyticDirection) compute(g, d *[9]float64) {
 		}
 		beta := s.rho[k] * watson9LBFGSAnalyticDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[8] += step[8] * c
 		}
 	}
 	watson9LBFGSAnalyticNegate(d, &q)
@@ -661,16 +679,28 @@ func (s *watson9LBFGSAnalyticDirection) firstTrial(t, slope, now float64) float6
 // watson9LBFGSAnalyticDot returns aᵀb.
 func watson9LBFGSAnalyticDot(a, b *[9]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
 	}
 	return s
 }
 
 // watson9LBFGSAnalyticNegate sets out = −x.
 func watson9LBFGSAnalyticNegate(out, x *[9]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[8] = -x[8]
 	}
 }
 
@@ -718,8 +748,22 @@ func watson9LBFGSAnalyticFinite(v float64) bool {
 
 // watson9LBFGSAnalyticFiniteVec reports whether every component of x is finite.
 func watson9LBFGSAnalyticFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9LBFGSAnalyticFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !watson9LBFGSAnalyticFinite(x[i]) {
+				return false
+			}
+			if !watson9LBFGSAnalyticFinite(x[i+1]) {
+				return false
+			}
+			if !watson9LBFGSAnalyticFinite(x[i+2]) {
+				return false
+			}
+			if !watson9LBFGSAnalyticFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson9LBFGSAnalyticFinite(x[8]) {
 			return false
 		}
 	}
@@ -773,15 +817,27 @@ func watson9LBFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]flo
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
 	}
 	var doubled [9]float64
 	calls += watson9LBFGSAnalyticDerivative(x, fx, g, diffs)
 	calls += watson9LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson9LBFGSAnalyticGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson9LBFGSAnalyticAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * watson9LBFGSAnalyticAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson9LBFGSAnalyticAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson9LBFGSAnalyticAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson9LBFGSAnalyticAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * watson9LBFGSAnalyticAbs(g[8]-doubled[8])
 	}
 	return calls, true
 }
@@ -789,8 +845,14 @@ func watson9LBFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]flo
 // watson9LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
 func watson9LBFGSAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] = 0
+			e[i+1] = 0
+			e[i+2] = 0
+			e[i+3] = 0
+		}
+		e[8] = 0
 	}
 }
 
@@ -811,8 +873,14 @@ func watson9LBFGSAnalyticAbs(v float64) float64 {
 func watson9LBFGSAnalyticRoundingFloor(x, g, e *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
 	var h [9]float64
 	watson9LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson9LBFGSAnalyticUnitRoundoff * watson9LBFGSAnalyticAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * watson9LBFGSAnalyticUnitRoundoff * watson9LBFGSAnalyticAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson9LBFGSAnalyticUnitRoundoff * watson9LBFGSAnalyticAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson9LBFGSAnalyticUnitRoundoff * watson9LBFGSAnalyticAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson9LBFGSAnalyticUnitRoundoff * watson9LBFGSAnalyticAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * watson9LBFGSAnalyticUnitRoundoff * watson9LBFGSAnalyticAbs(x[8]) * h[8]
 	}
 }
 
@@ -914,10 +982,34 @@ func watson9LBFGSAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9LBFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
 	scale := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson9LBFGSAnalyticLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i])+e[i])*w)
+				floor = watson9LBFGSAnalyticLarger(floor, e[i]*w)
+			}
+			{
+				w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i+1]), 1) / scale
+				measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i+1])+e[i+1])*w)
+				floor = watson9LBFGSAnalyticLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i+2]), 1) / scale
+				measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i+2])+e[i+2])*w)
+				floor = watson9LBFGSAnalyticLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i+3]), 1) / scale
+				measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i+3])+e[i+3])*w)
+				floor = watson9LBFGSAnalyticLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[8]), 1) / scale
+			measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[8])+e[8])*w)
+			floor = watson9LBFGSAnalyticLarger(floor, e[8]*w)
+		}
 	}
 	return measure, floor
 }
@@ -927,8 +1019,22 @@ func watson9LBFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measu
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson9LBFGSAnalyticStepWithin(s, x *[9]float64, tol float64, diffs *watson9LBFGSAnalyticDifferences) bool {
-	for i := range s {
-		if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*watson9LBFGSAnalyticStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*watson9LBFGSAnalyticStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson9LBFGSAnalyticAbs(s[i+1]) <= tol*watson9LBFGSAnalyticStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson9LBFGSAnalyticAbs(s[i+2]) <= tol*watson9LBFGSAnalyticStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson9LBFGSAnalyticAbs(s[i+3]) <= tol*watson9LBFGSAnalyticStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson9LBFGSAnalyticAbs(s[8]) <= tol*watson9LBFGSAnalyticStepScale(x[8], 8, diffs)) {
 			return false
 		}
 	}
@@ -980,9 +1086,31 @@ func (f *watson9LBFGSAnalyticStepFloor) at(x, d *[9]float64, diffs *watson9LBFGS
 // step test, min over i of tol·watson9LBFGSAnalyticStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64, diffs *watson9LBFGSAnalyticDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson9LBFGSAnalyticStepScale(x[i], i, diffs) / watson9LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson9LBFGSAnalyticStepScale(x[i], i, diffs) / watson9LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson9LBFGSAnalyticStepScale(x[i+1], i+1, diffs) / watson9LBFGSAnalyticAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson9LBFGSAnalyticStepScale(x[i+2], i+2, diffs) / watson9LBFGSAnalyticAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson9LBFGSAnalyticStepScale(x[i+3], i+3, diffs) / watson9LBFGSAnalyticAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * watson9LBFGSAnalyticStepScale(x[8], 8, diffs) / watson9LBFGSAnalyticAbs(d[8]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1130,8 +1258,22 @@ func watson9LBFGSAnalyticShrinkDirection(d, g *[9]float64) {
 // watson9LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
 func watson9LBFGSAnalyticMaxAbs(x *[9]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson9LBFGSAnalyticAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := watson9LBFGSAnalyticAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson9LBFGSAnalyticAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson9LBFGSAnalyticAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson9LBFGSAnalyticAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson9LBFGSAnalyticAbs(x[8]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1140,8 +1282,14 @@ func watson9LBFGSAnalyticMaxAbs(x *[9]float64) float64 {
 
 // watson9LBFGSAnalyticScaleBy sets x = c·x.
 func watson9LBFGSAnalyticScaleBy(x *[9]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
 	}
 }
 
@@ -1206,8 +1354,22 @@ func (r *watson9LBFGSAnalyticRiseTrend) contradicts() bool {
 // watson9LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson9LBFGSAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(watson9LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson9LBFGSAnalyticAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson9LBFGSAnalyticAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson9LBFGSAnalyticAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(watson9LBFGSAnalyticAbs(xt[8]-x[8]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
 			return false
 		}
 	}
@@ -1256,8 +1418,14 @@ func watson9LBFGSAnalyticTrialPoint(out, x *[9]float64, t float64, d *[9]float64
 
 // watson9LBFGSAnalyticMoveTo sets out = x + t·d.
 func watson9LBFGSAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
 	}
 }
 
@@ -1323,8 +1491,14 @@ func watson9LBFGSAnalyticExpandTrial(previous, current *watson9LBFGSAnalyticLine
 
 // watson9LBFGSAnalyticGradientChange sets out = a − b.
 func watson9LBFGSAnalyticGradientChange(out, a, b *[9]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
 	}
 }
 

@@ -602,8 +602,14 @@ func (s *watson9LBFGSCentralDirection) compute(g, d *[9]float64) {
 	for n := 0; n < s.count; n++ {
 		a, y := s.rho[k]*watson9LBFGSCentralDot(&s.s[k], &q), &s.y[k]
 		alpha[k] = a
-		for i := range q {
-			q[i] -= a * y[i]
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] -= a * y[i]
+				q[i+1] -= a * y[i+1]
+				q[i+2] -= a * y[i+2]
+				q[i+3] -= a * y[i+3]
+			}
+			q[8] -= a * y[8]
 		}
 		k--
 		if k < 0 {
@@ -611,8 +617,14 @@ func (s *watson9LBFGSCentralDirection) compute(g, d *[9]float64) {
 		}
 	}
 	if s.count > 0 {
-		for i := range q {
-			q[i] *= s.gamma // H₀ = γI, N&W eq. 7.20
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] *= s.gamma
+				q[i+1] *= s.gamma
+				q[i+2] *= s.gamma
+				q[i+3] *= s.gamma // H₀ = γI, N&W eq. 7.20
+			}
+			q[8] *= s.gamma
 		}
 	}
 	// Second loop, oldest pair to newest; k is now the slot before the oldest.
@@ -623,8 +635,14 @@ func (s *watson9LBFGSCentralDirection) compute(g, d *[9]float64) {
 		}
 		beta := s.rho[k] * watson9LBFGSCentralDot(&s.y[k], &q)
 		c, step := alpha[k]-beta, &s.s[k]
-		for i := range q {
-			q[i] += step[i] * c
+		{
+			for i := 0; i < 8; i += 4 {
+				q[i] += step[i] * c
+				q[i+1] += step[i+1] * c
+				q[i+2] += step[i+2] * c
+				q[i+3] += step[i+3] * c
+			}
+			q[8] += step[8] * c
 		}
 	}
 	watson9LBFGSCentralNegate(d, &q)
@@ -661,16 +679,28 @@ func (s *watson9LBFGSCentralDirection) firstTrial(t, slope, now float64) float64
 // watson9LBFGSCentralDot returns aᵀb.
 func watson9LBFGSCentralDot(a, b *[9]float64) float64 {
 	var s float64
-	for i := range a {
-		s += a[i] * b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			s += a[i] * b[i]
+			s += a[i+1] * b[i+1]
+			s += a[i+2] * b[i+2]
+			s += a[i+3] * b[i+3]
+		}
+		s += a[8] * b[8]
 	}
 	return s
 }
 
 // watson9LBFGSCentralNegate sets out = −x.
 func watson9LBFGSCentralNegate(out, x *[9]float64) {
-	for i := range x {
-		out[i] = -x[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = -x[i]
+			out[i+1] = -x[i+1]
+			out[i+2] = -x[i+2]
+			out[i+3] = -x[i+3]
+		}
+		out[8] = -x[8]
 	}
 }
 
@@ -718,8 +748,22 @@ func watson9LBFGSCentralFinite(v float64) bool {
 
 // watson9LBFGSCentralFiniteVec reports whether every component of x is finite.
 func watson9LBFGSCentralFiniteVec(x *[9]float64) bool {
-	for i := range x {
-		if !watson9LBFGSCentralFinite(x[i]) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !watson9LBFGSCentralFinite(x[i]) {
+				return false
+			}
+			if !watson9LBFGSCentralFinite(x[i+1]) {
+				return false
+			}
+			if !watson9LBFGSCentralFinite(x[i+2]) {
+				return false
+			}
+			if !watson9LBFGSCentralFinite(x[i+3]) {
+				return false
+			}
+		}
+		if !watson9LBFGSCentralFinite(x[8]) {
 			return false
 		}
 	}
@@ -894,8 +938,14 @@ func watson9LBFGSCentralMagnitude(v float64) float64 {
 // Murray, Saunders & Wright 1983 leave ε_A to the user).
 func watson9LBFGSCentralNoiseLevel(x *[9]float64, fx float64, g *[9]float64) float64 {
 	sum := watson9LBFGSCentralAbs(fx)
-	for i := range x {
-		sum += watson9LBFGSCentralAbs(g[i] * x[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			sum += watson9LBFGSCentralAbs(g[i] * x[i])
+			sum += watson9LBFGSCentralAbs(g[i+1] * x[i+1])
+			sum += watson9LBFGSCentralAbs(g[i+2] * x[i+2])
+			sum += watson9LBFGSCentralAbs(g[i+3] * x[i+3])
+		}
+		sum += watson9LBFGSCentralAbs(g[8] * x[8])
 	}
 	return 4 * watson9LBFGSCentralUnitRoundoff * sum
 }
@@ -1022,15 +1072,27 @@ func watson9LBFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 		return calls, false
 	}
 	wide := *diffs
-	for i := range wide.ratio {
-		wide.ratio[i] *= 2
+	{
+		for i := 0; i < 8; i += 4 {
+			wide.ratio[i] *= 2
+			wide.ratio[i+1] *= 2
+			wide.ratio[i+2] *= 2
+			wide.ratio[i+3] *= 2
+		}
+		wide.ratio[8] *= 2
 	}
 	var doubled [9]float64
 	calls += watson9LBFGSCentralDerivative(x, fx, g, diffs)
 	calls += watson9LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	watson9LBFGSCentralGradientError(x, fx, g, e, diffs)
-	for i := range e {
-		e[i] += 3 * watson9LBFGSCentralAbs(g[i]-doubled[i])
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 3 * watson9LBFGSCentralAbs(g[i]-doubled[i])
+			e[i+1] += 3 * watson9LBFGSCentralAbs(g[i+1]-doubled[i+1])
+			e[i+2] += 3 * watson9LBFGSCentralAbs(g[i+2]-doubled[i+2])
+			e[i+3] += 3 * watson9LBFGSCentralAbs(g[i+3]-doubled[i+3])
+		}
+		e[8] += 3 * watson9LBFGSCentralAbs(g[8]-doubled[8])
 	}
 	return calls, true
 }
@@ -1064,8 +1126,14 @@ func watson9LBFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float6
 func watson9LBFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9LBFGSCentralDifferences) {
 	var h [9]float64
 	watson9LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
-	for i := range e {
-		e[i] += 4 * watson9LBFGSCentralUnitRoundoff * watson9LBFGSCentralAbs(x[i]) * h[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			e[i] += 4 * watson9LBFGSCentralUnitRoundoff * watson9LBFGSCentralAbs(x[i]) * h[i]
+			e[i+1] += 4 * watson9LBFGSCentralUnitRoundoff * watson9LBFGSCentralAbs(x[i+1]) * h[i+1]
+			e[i+2] += 4 * watson9LBFGSCentralUnitRoundoff * watson9LBFGSCentralAbs(x[i+2]) * h[i+2]
+			e[i+3] += 4 * watson9LBFGSCentralUnitRoundoff * watson9LBFGSCentralAbs(x[i+3]) * h[i+3]
+		}
+		e[8] += 4 * watson9LBFGSCentralUnitRoundoff * watson9LBFGSCentralAbs(x[8]) * h[8]
 	}
 }
 
@@ -1093,10 +1161,34 @@ func watson9LBFGSCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9LBFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
 	scale := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson9LBFGSCentralLarger(floor, e[i]*w)
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+				measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i])+e[i])*w)
+				floor = watson9LBFGSCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i+1]), 1) / scale
+				measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i+1])+e[i+1])*w)
+				floor = watson9LBFGSCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i+2]), 1) / scale
+				measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i+2])+e[i+2])*w)
+				floor = watson9LBFGSCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i+3]), 1) / scale
+				measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i+3])+e[i+3])*w)
+				floor = watson9LBFGSCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[8]), 1) / scale
+			measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[8])+e[8])*w)
+			floor = watson9LBFGSCentralLarger(floor, e[8]*w)
+		}
 	}
 	return measure, floor
 }
@@ -1106,8 +1198,22 @@ func watson9LBFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measur
 // component on its own scale, so a small component still moving is not
 // hidden by a large one.
 func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64, diffs *watson9LBFGSCentralDifferences) bool {
-	for i := range s {
-		if !(watson9LBFGSCentralAbs(s[i]) <= tol*watson9LBFGSCentralStepScale(x[i], i, diffs)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if !(watson9LBFGSCentralAbs(s[i]) <= tol*watson9LBFGSCentralStepScale(x[i], i, diffs)) {
+				return false
+			}
+			if !(watson9LBFGSCentralAbs(s[i+1]) <= tol*watson9LBFGSCentralStepScale(x[i+1], i+1, diffs)) {
+				return false
+			}
+			if !(watson9LBFGSCentralAbs(s[i+2]) <= tol*watson9LBFGSCentralStepScale(x[i+2], i+2, diffs)) {
+				return false
+			}
+			if !(watson9LBFGSCentralAbs(s[i+3]) <= tol*watson9LBFGSCentralStepScale(x[i+3], i+3, diffs)) {
+				return false
+			}
+		}
+		if !(watson9LBFGSCentralAbs(s[8]) <= tol*watson9LBFGSCentralStepScale(x[8], 8, diffs)) {
 			return false
 		}
 	}
@@ -1159,9 +1265,31 @@ func (f *watson9LBFGSCentralStepFloor) at(x, d *[9]float64, diffs *watson9LBFGSC
 // step test, min over i of tol·watson9LBFGSCentralStepScale(x_i)/|d_i|, or −1 when d is zero.
 func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64, diffs *watson9LBFGSCentralDifferences) float64 {
 	tiny := float64(-1)
-	for i := range x {
-		if d[i] != 0 {
-			if t := tol * watson9LBFGSCentralStepScale(x[i], i, diffs) / watson9LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+	{
+		for i := 0; i < 8; i += 4 {
+			if d[i] != 0 {
+				if t := tol * watson9LBFGSCentralStepScale(x[i], i, diffs) / watson9LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+1] != 0 {
+				if t := tol * watson9LBFGSCentralStepScale(x[i+1], i+1, diffs) / watson9LBFGSCentralAbs(d[i+1]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+2] != 0 {
+				if t := tol * watson9LBFGSCentralStepScale(x[i+2], i+2, diffs) / watson9LBFGSCentralAbs(d[i+2]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+			if d[i+3] != 0 {
+				if t := tol * watson9LBFGSCentralStepScale(x[i+3], i+3, diffs) / watson9LBFGSCentralAbs(d[i+3]); tiny < 0 || t < tiny {
+					tiny = t
+				}
+			}
+		}
+		if d[8] != 0 {
+			if t := tol * watson9LBFGSCentralStepScale(x[8], 8, diffs) / watson9LBFGSCentralAbs(d[8]); tiny < 0 || t < tiny {
 				tiny = t
 			}
 		}
@@ -1309,8 +1437,22 @@ func watson9LBFGSCentralShrinkDirection(d, g *[9]float64) {
 // watson9LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
 func watson9LBFGSCentralMaxAbs(x *[9]float64) float64 {
 	var m float64
-	for i := range x {
-		if a := watson9LBFGSCentralAbs(x[i]); a > m || a != a {
+	{
+		for i := 0; i < 8; i += 4 {
+			if a := watson9LBFGSCentralAbs(x[i]); a > m || a != a {
+				m = a
+			}
+			if a := watson9LBFGSCentralAbs(x[i+1]); a > m || a != a {
+				m = a
+			}
+			if a := watson9LBFGSCentralAbs(x[i+2]); a > m || a != a {
+				m = a
+			}
+			if a := watson9LBFGSCentralAbs(x[i+3]); a > m || a != a {
+				m = a
+			}
+		}
+		if a := watson9LBFGSCentralAbs(x[8]); a > m || a != a {
 			m = a
 		}
 	}
@@ -1319,8 +1461,14 @@ func watson9LBFGSCentralMaxAbs(x *[9]float64) float64 {
 
 // watson9LBFGSCentralScaleBy sets x = c·x.
 func watson9LBFGSCentralScaleBy(x *[9]float64, c float64) {
-	for i := range x {
-		x[i] *= c
+	{
+		for i := 0; i < 8; i += 4 {
+			x[i] *= c
+			x[i+1] *= c
+			x[i+2] *= c
+			x[i+3] *= c
+		}
+		x[8] *= c
 	}
 }
 
@@ -1385,8 +1533,22 @@ func (r *watson9LBFGSCentralRiseTrend) contradicts() bool {
 // watson9LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
 // component, that is, whether rounding let x move as the search meant.
 func watson9LBFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
+	{
+		for i := 0; i < 8; i += 4 {
+			if want := t * d[i]; !(watson9LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+1]; !(watson9LBFGSCentralAbs(xt[i+1]-x[i+1]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+2]; !(watson9LBFGSCentralAbs(xt[i+2]-x[i+2]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
+				return false
+			}
+			if want := t * d[i+3]; !(watson9LBFGSCentralAbs(xt[i+3]-x[i+3]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
+				return false
+			}
+		}
+		if want := t * d[8]; !(watson9LBFGSCentralAbs(xt[8]-x[8]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
 			return false
 		}
 	}
@@ -1435,8 +1597,14 @@ func watson9LBFGSCentralTrialPoint(out, x *[9]float64, t float64, d *[9]float64,
 
 // watson9LBFGSCentralMoveTo sets out = x + t·d.
 func watson9LBFGSCentralMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
-	for i := range x {
-		out[i] = x[i] + t*d[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = x[i] + t*d[i]
+			out[i+1] = x[i+1] + t*d[i+1]
+			out[i+2] = x[i+2] + t*d[i+2]
+			out[i+3] = x[i+3] + t*d[i+3]
+		}
+		out[8] = x[8] + t*d[8]
 	}
 }
 
@@ -1502,8 +1670,14 @@ func watson9LBFGSCentralExpandTrial(previous, current *watson9LBFGSCentralLinePo
 
 // watson9LBFGSCentralGradientChange sets out = a − b.
 func watson9LBFGSCentralGradientChange(out, a, b *[9]float64) {
-	for i := range a {
-		out[i] = a[i] - b[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			out[i] = a[i] - b[i]
+			out[i+1] = a[i+1] - b[i+1]
+			out[i+2] = a[i+2] - b[i+2]
+			out[i+3] = a[i+3] - b[i+3]
+		}
+		out[8] = a[8] - b[8]
 	}
 }
 
