@@ -78,7 +78,7 @@ func TestSpecializedCommentsSurvive(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := map[string][]string{
-		"MinValley":        {"count  int // pairs held, at most minValleyLbfgsMemory", "// N&W eq. 7.20", "// N&W eq. 3.6b"},
+		"MinValley":        {"count  int     // pairs held, at most minValleyLbfgsMemory", "// N&W eq. 7.20", "// N&W eq. 3.6b"},
 		"MinParabola":      {"// N&W Alg. 3.5 and 3.6, first test", "// N&W eq. 6.17", "// N&W eq. 8.7, with the representable 2h"},
 		"MinPlateDecrease": {"// N&W eq. 3.58"},
 		"MinBowl":          {"// N&W eq. 5.45 (PR+)", "// N&W eq. 3.7b"},
