@@ -21,7 +21,7 @@ const unrollLimit = 4
 // checks were about half the instructions of a dot product.
 const (
 	unrollBy         = 4
-	partialBodyLimit = 40
+	partialBodyLimit = 64
 )
 
 // unrollBodyLimit is the largest loop body, in AST nodes, that is unrolled:

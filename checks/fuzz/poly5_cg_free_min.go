@@ -673,11 +673,29 @@ func (s *poly5CGFreeDirection) compute(g, d *[5]float64) {
 func (s *poly5CGFreeDirection) update(step, change *[5]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			sy += step[i] * change[i]
+			ss += step[i] * step[i]
+			yy += change[i] * change[i]
+			sbs += s.curvature[i] * step[i] * step[i]
+			sy += step[i+1] * change[i+1]
+			ss += step[i+1] * step[i+1]
+			yy += change[i+1] * change[i+1]
+			sbs += s.curvature[i+1] * step[i+1] * step[i+1]
+			sy += step[i+2] * change[i+2]
+			ss += step[i+2] * step[i+2]
+			yy += change[i+2] * change[i+2]
+			sbs += s.curvature[i+2] * step[i+2] * step[i+2]
+			sy += step[i+3] * change[i+3]
+			ss += step[i+3] * step[i+3]
+			yy += change[i+3] * change[i+3]
+			sbs += s.curvature[i+3] * step[i+3] * step[i+3]
+		}
+		sy += step[4] * change[4]
+		ss += step[4] * step[4]
+		yy += change[4] * change[4]
+		sbs += s.curvature[4] * step[4] * step[4]
 	}
 	if !poly5CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
@@ -697,11 +715,43 @@ func (s *poly5CGFreeDirection) update(step, change *[5]float64) {
 		s.scaled = true
 	}
 	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && poly5CGFreeFinite(next) {
-			s.curvature[i] = next
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				bs := s.curvature[i] * step[i]
+				next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+				if next > 0 && poly5CGFreeFinite(next) {
+					s.curvature[i] = next
+				}
+			}
+			{
+				bs := s.curvature[i+1] * step[i+1]
+				next := s.curvature[i+1] - bs*bs*overSBS + change[i+1]*change[i+1]*overSY
+				if next > 0 && poly5CGFreeFinite(next) {
+					s.curvature[i+1] = next
+				}
+			}
+			{
+				bs := s.curvature[i+2] * step[i+2]
+				next := s.curvature[i+2] - bs*bs*overSBS + change[i+2]*change[i+2]*overSY
+				if next > 0 && poly5CGFreeFinite(next) {
+					s.curvature[i+2] = next
+				}
+			}
+			{
+				bs := s.curvature[i+3] * step[i+3]
+				next := s.curvature[i+3] - bs*bs*overSBS + change[i+3]*change[i+3]*overSY
+				if next > 0 && poly5CGFreeFinite(next) {
+					s.curvature[i+3] = next
+				}
+			}
+		}
+		{
+			bs := s.curvature[4] * step[4]
+			next := s.curvature[4] - bs*bs*overSBS + change[4]*change[4]*overSY
+			if next > 0 && poly5CGFreeFinite(next) {
+				s.curvature[4] = next
+			}
 		}
 	}
 }
@@ -1027,7 +1077,46 @@ func poly5CGFreeStationarity(g, e, x *[5]float64, fx float64, b *poly5CGFreeBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5CGFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i]), 1)
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i])+e[i])*w)
+				floor = poly5CGFreeLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i+1]), 1)
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i+1])+e[i+1])*w)
+				floor = poly5CGFreeLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i+2]), 1)
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i+2])+e[i+2])*w)
+				floor = poly5CGFreeLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5CGFreeLarger(poly5CGFreeAbs(x[i+3]), 1)
+				measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[i+3])+e[i+3])*w)
+				floor = poly5CGFreeLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5CGFreeLarger(poly5CGFreeAbs(x[4]), 1)
+			measure = poly5CGFreeLarger(measure, (poly5CGFreeAbs(g[4])+e[4])*w)
+			floor = poly5CGFreeLarger(floor, e[4]*w)
+		}
+	}
 	scale := poly5CGFreeLarger(poly5CGFreeAbs(fx), 1)
+	if !poly5CGFreeFinite(measure) {
+		return poly5CGFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// poly5CGFreeRelativeDividedFirst is poly5CGFreeGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func poly5CGFreeRelativeDividedFirst(g, e, x *[5]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

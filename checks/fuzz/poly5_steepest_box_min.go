@@ -911,9 +911,23 @@ func poly5SteepestBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly5SteepestBoxStationarity(g, e, x *[5]float64, fx float64, b *poly5SteepestBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
-		if poly5SteepestBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
-			pg[i], pe[i] = 0, poly5SteepestBoxLarger(0, e[i]-poly5SteepestBoxAbs(g[i]))
+	{
+		for i := 0; i < 4; i += 4 {
+			if poly5SteepestBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
+				pg[i], pe[i] = 0, poly5SteepestBoxLarger(0, e[i]-poly5SteepestBoxAbs(g[i]))
+			}
+			if poly5SteepestBoxPushedAgainst(x[i+1], g[i+1], b.lower[i+1], b.upper[i+1]) {
+				pg[i+1], pe[i+1] = 0, poly5SteepestBoxLarger(0, e[i+1]-poly5SteepestBoxAbs(g[i+1]))
+			}
+			if poly5SteepestBoxPushedAgainst(x[i+2], g[i+2], b.lower[i+2], b.upper[i+2]) {
+				pg[i+2], pe[i+2] = 0, poly5SteepestBoxLarger(0, e[i+2]-poly5SteepestBoxAbs(g[i+2]))
+			}
+			if poly5SteepestBoxPushedAgainst(x[i+3], g[i+3], b.lower[i+3], b.upper[i+3]) {
+				pg[i+3], pe[i+3] = 0, poly5SteepestBoxLarger(0, e[i+3]-poly5SteepestBoxAbs(g[i+3]))
+			}
+		}
+		if poly5SteepestBoxPushedAgainst(x[4], g[4], b.lower[4], b.upper[4]) {
+			pg[4], pe[4] = 0, poly5SteepestBoxLarger(0, e[4]-poly5SteepestBoxAbs(g[4]))
 		}
 	}
 	return poly5SteepestBoxGradientMeasure(&pg, &pe, x, fx)
@@ -938,7 +952,46 @@ func poly5SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5SteepestBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i]), 1)
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i])+e[i])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i]*w)
+			}
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i+1]), 1)
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i+1])+e[i+1])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i+1]*w)
+			}
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i+2]), 1)
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i+2])+e[i+2])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i+2]*w)
+			}
+			{
+				w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[i+3]), 1)
+				measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[i+3])+e[i+3])*w)
+				floor = poly5SteepestBoxLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := poly5SteepestBoxLarger(poly5SteepestBoxAbs(x[4]), 1)
+			measure = poly5SteepestBoxLarger(measure, (poly5SteepestBoxAbs(g[4])+e[4])*w)
+			floor = poly5SteepestBoxLarger(floor, e[4]*w)
+		}
+	}
 	scale := poly5SteepestBoxLarger(poly5SteepestBoxAbs(fx), 1)
+	if !poly5SteepestBoxFinite(measure) {
+		return poly5SteepestBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// poly5SteepestBoxRelativeDividedFirst is poly5SteepestBoxGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func poly5SteepestBoxRelativeDividedFirst(g, e, x *[5]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{
@@ -1077,14 +1130,58 @@ func poly5SteepestBoxSearchDirection(dir *poly5SteepestBoxDirection, x, g, d *[5
 	}
 	var free [5]float64
 	var active [5]bool
-	for i := range x {
-		margin := poly5SteepestBoxActiveMargin * poly5SteepestBoxLarger(1, poly5SteepestBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				margin := poly5SteepestBoxActiveMargin * poly5SteepestBoxLarger(1, poly5SteepestBoxAbs(x[i]))
+				if reach < margin {
+					margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+				}
+				active[i] = poly5SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
+				if !active[i] {
+					free[i] = g[i]
+				}
+			}
+			{
+				margin := poly5SteepestBoxActiveMargin * poly5SteepestBoxLarger(1, poly5SteepestBoxAbs(x[i+1]))
+				if reach < margin {
+					margin = reach
+				}
+				active[i+1] = poly5SteepestBoxPushedAgainst(x[i+1], g[i+1], b.lower[i+1]+margin, b.upper[i+1]-margin)
+				if !active[i+1] {
+					free[i+1] = g[i+1]
+				}
+			}
+			{
+				margin := poly5SteepestBoxActiveMargin * poly5SteepestBoxLarger(1, poly5SteepestBoxAbs(x[i+2]))
+				if reach < margin {
+					margin = reach
+				}
+				active[i+2] = poly5SteepestBoxPushedAgainst(x[i+2], g[i+2], b.lower[i+2]+margin, b.upper[i+2]-margin)
+				if !active[i+2] {
+					free[i+2] = g[i+2]
+				}
+			}
+			{
+				margin := poly5SteepestBoxActiveMargin * poly5SteepestBoxLarger(1, poly5SteepestBoxAbs(x[i+3]))
+				if reach < margin {
+					margin = reach
+				}
+				active[i+3] = poly5SteepestBoxPushedAgainst(x[i+3], g[i+3], b.lower[i+3]+margin, b.upper[i+3]-margin)
+				if !active[i+3] {
+					free[i+3] = g[i+3]
+				}
+			}
 		}
-		active[i] = poly5SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly5SteepestBoxActiveMargin * poly5SteepestBoxLarger(1, poly5SteepestBoxAbs(x[4]))
+			if reach < margin {
+				margin = reach
+			}
+			active[4] = poly5SteepestBoxPushedAgainst(x[4], g[4], b.lower[4]+margin, b.upper[4]-margin)
+			if !active[4] {
+				free[4] = g[4]
+			}
 		}
 	}
 	poly5SteepestBoxSolveDirection(dir, &free, d, diffs)

@@ -595,7 +595,7 @@ type poly8BFGSBoxDirection struct {
 }
 
 func (s *poly8BFGSBoxDirection) reset() {
-	for i := range s.h {
+	for i := 0; i < 8; i += 4 {
 		for j := 0; j < 8; j += 4 {
 			s.h[i][j] = 0
 			s.h[i][j+1] = 0
@@ -603,6 +603,27 @@ func (s *poly8BFGSBoxDirection) reset() {
 			s.h[i][j+3] = 0
 		}
 		s.h[i][i] = 1
+		for j := 0; j < 8; j += 4 {
+			s.h[i+1][j] = 0
+			s.h[i+1][j+1] = 0
+			s.h[i+1][j+2] = 0
+			s.h[i+1][j+3] = 0
+		}
+		s.h[i+1][i+1] = 1
+		for j := 0; j < 8; j += 4 {
+			s.h[i+2][j] = 0
+			s.h[i+2][j+1] = 0
+			s.h[i+2][j+2] = 0
+			s.h[i+2][j+3] = 0
+		}
+		s.h[i+2][i+2] = 1
+		for j := 0; j < 8; j += 4 {
+			s.h[i+3][j] = 0
+			s.h[i+3][j+1] = 0
+			s.h[i+3][j+2] = 0
+			s.h[i+3][j+3] = 0
+		}
+		s.h[i+3][i+3] = 1
 	}
 	s.scaled = false
 }
@@ -942,9 +963,18 @@ func poly8BFGSBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly8BFGSBoxStationarity(g, e, x *[8]float64, fx float64, b *poly8BFGSBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
+	for i := 0; i < 8; i += 4 {
 		if poly8BFGSBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, poly8BFGSBoxLarger(0, e[i]-poly8BFGSBoxAbs(g[i]))
+		}
+		if poly8BFGSBoxPushedAgainst(x[i+1], g[i+1], b.lower[i+1], b.upper[i+1]) {
+			pg[i+1], pe[i+1] = 0, poly8BFGSBoxLarger(0, e[i+1]-poly8BFGSBoxAbs(g[i+1]))
+		}
+		if poly8BFGSBoxPushedAgainst(x[i+2], g[i+2], b.lower[i+2], b.upper[i+2]) {
+			pg[i+2], pe[i+2] = 0, poly8BFGSBoxLarger(0, e[i+2]-poly8BFGSBoxAbs(g[i+2]))
+		}
+		if poly8BFGSBoxPushedAgainst(x[i+3], g[i+3], b.lower[i+3], b.upper[i+3]) {
+			pg[i+3], pe[i+3] = 0, poly8BFGSBoxLarger(0, e[i+3]-poly8BFGSBoxAbs(g[i+3]))
 		}
 	}
 	return poly8BFGSBoxGradientMeasure(&pg, &pe, x, fx)
@@ -969,7 +999,39 @@ func poly8BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8BFGSBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i]), 1)
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i])+e[i])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i+1]), 1)
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i+1])+e[i+1])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i+2]), 1)
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i+2])+e[i+2])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i+3]), 1)
+			measure = poly8BFGSBoxLarger(measure, (poly8BFGSBoxAbs(g[i+3])+e[i+3])*w)
+			floor = poly8BFGSBoxLarger(floor, e[i+3]*w)
+		}
+	}
 	scale := poly8BFGSBoxLarger(poly8BFGSBoxAbs(fx), 1)
+	if !poly8BFGSBoxFinite(measure) {
+		return poly8BFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// poly8BFGSBoxRelativeDividedFirst is poly8BFGSBoxGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func poly8BFGSBoxRelativeDividedFirst(g, e, x *[8]float64, scale float64) (measure, floor float64) {
 	for i := 0; i < 8; i += 4 {
 		{
 			w := poly8BFGSBoxLarger(poly8BFGSBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
@@ -1088,14 +1150,46 @@ func poly8BFGSBoxSearchDirection(dir *poly8BFGSBoxDirection, x, g, d *[8]float64
 	}
 	var free [8]float64
 	var active [8]bool
-	for i := range x {
-		margin := poly8BFGSBoxActiveMargin * poly8BFGSBoxLarger(1, poly8BFGSBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	for i := 0; i < 8; i += 4 {
+		{
+			margin := poly8BFGSBoxActiveMargin * poly8BFGSBoxLarger(1, poly8BFGSBoxAbs(x[i]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[i] = poly8BFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
+			if !active[i] {
+				free[i] = g[i]
+			}
 		}
-		active[i] = poly8BFGSBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly8BFGSBoxActiveMargin * poly8BFGSBoxLarger(1, poly8BFGSBoxAbs(x[i+1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[i+1] = poly8BFGSBoxPushedAgainst(x[i+1], g[i+1], b.lower[i+1]+margin, b.upper[i+1]-margin)
+			if !active[i+1] {
+				free[i+1] = g[i+1]
+			}
+		}
+		{
+			margin := poly8BFGSBoxActiveMargin * poly8BFGSBoxLarger(1, poly8BFGSBoxAbs(x[i+2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[i+2] = poly8BFGSBoxPushedAgainst(x[i+2], g[i+2], b.lower[i+2]+margin, b.upper[i+2]-margin)
+			if !active[i+2] {
+				free[i+2] = g[i+2]
+			}
+		}
+		{
+			margin := poly8BFGSBoxActiveMargin * poly8BFGSBoxLarger(1, poly8BFGSBoxAbs(x[i+3]))
+			if reach < margin {
+				margin = reach
+			}
+			active[i+3] = poly8BFGSBoxPushedAgainst(x[i+3], g[i+3], b.lower[i+3]+margin, b.upper[i+3]-margin)
+			if !active[i+3] {
+				free[i+3] = g[i+3]
+			}
 		}
 	}
 	poly8BFGSBoxSolveDirection(dir, &free, d, diffs)

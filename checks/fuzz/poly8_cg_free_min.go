@@ -664,11 +664,23 @@ func (s *poly8CGFreeDirection) compute(g, d *[8]float64) {
 func (s *poly8CGFreeDirection) update(step, change *[8]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
+	for i := 0; i < 8; i += 4 {
 		sy += step[i] * change[i]
 		ss += step[i] * step[i]
 		yy += change[i] * change[i]
 		sbs += s.curvature[i] * step[i] * step[i]
+		sy += step[i+1] * change[i+1]
+		ss += step[i+1] * step[i+1]
+		yy += change[i+1] * change[i+1]
+		sbs += s.curvature[i+1] * step[i+1] * step[i+1]
+		sy += step[i+2] * change[i+2]
+		ss += step[i+2] * step[i+2]
+		yy += change[i+2] * change[i+2]
+		sbs += s.curvature[i+2] * step[i+2] * step[i+2]
+		sy += step[i+3] * change[i+3]
+		ss += step[i+3] * step[i+3]
+		yy += change[i+3] * change[i+3]
+		sbs += s.curvature[i+3] * step[i+3] * step[i+3]
 	}
 	if !poly8CGFreeCurvatureSafeFrom(sy, ss, yy) {
 		return
@@ -685,11 +697,34 @@ func (s *poly8CGFreeDirection) update(step, change *[8]float64) {
 		s.scaled = true
 	}
 	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && poly8CGFreeFinite(next) {
-			s.curvature[i] = next
+	for i := 0; i < 8; i += 4 {
+		{
+			bs := s.curvature[i] * step[i]
+			next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+			if next > 0 && poly8CGFreeFinite(next) {
+				s.curvature[i] = next
+			}
+		}
+		{
+			bs := s.curvature[i+1] * step[i+1]
+			next := s.curvature[i+1] - bs*bs*overSBS + change[i+1]*change[i+1]*overSY
+			if next > 0 && poly8CGFreeFinite(next) {
+				s.curvature[i+1] = next
+			}
+		}
+		{
+			bs := s.curvature[i+2] * step[i+2]
+			next := s.curvature[i+2] - bs*bs*overSBS + change[i+2]*change[i+2]*overSY
+			if next > 0 && poly8CGFreeFinite(next) {
+				s.curvature[i+2] = next
+			}
+		}
+		{
+			bs := s.curvature[i+3] * step[i+3]
+			next := s.curvature[i+3] - bs*bs*overSBS + change[i+3]*change[i+3]*overSY
+			if next > 0 && poly8CGFreeFinite(next) {
+				s.curvature[i+3] = next
+			}
 		}
 	}
 }
@@ -995,7 +1030,39 @@ func poly8CGFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8CGFreeBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8CGFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i]), 1)
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i])+e[i])*w)
+			floor = poly8CGFreeLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+1]), 1)
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+1])+e[i+1])*w)
+			floor = poly8CGFreeLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+2]), 1)
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+2])+e[i+2])*w)
+			floor = poly8CGFreeLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+3]), 1)
+			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+3])+e[i+3])*w)
+			floor = poly8CGFreeLarger(floor, e[i+3]*w)
+		}
+	}
 	scale := poly8CGFreeLarger(poly8CGFreeAbs(fx), 1)
+	if !poly8CGFreeFinite(measure) {
+		return poly8CGFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// poly8CGFreeRelativeDividedFirst is poly8CGFreeGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func poly8CGFreeRelativeDividedFirst(g, e, x *[8]float64, scale float64) (measure, floor float64) {
 	for i := 0; i < 8; i += 4 {
 		{
 			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient

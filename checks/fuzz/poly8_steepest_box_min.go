@@ -888,9 +888,18 @@ func poly8SteepestBoxLarger(a, b float64) float64 {
 // eᵢ − |gᵢ|, which is what is counted.
 func poly8SteepestBoxStationarity(g, e, x *[8]float64, fx float64, b *poly8SteepestBoxBox) (measure, floor float64) {
 	pg, pe := *g, *e
-	for i := range pg {
+	for i := 0; i < 8; i += 4 {
 		if poly8SteepestBoxPushedAgainst(x[i], g[i], b.lower[i], b.upper[i]) {
 			pg[i], pe[i] = 0, poly8SteepestBoxLarger(0, e[i]-poly8SteepestBoxAbs(g[i]))
+		}
+		if poly8SteepestBoxPushedAgainst(x[i+1], g[i+1], b.lower[i+1], b.upper[i+1]) {
+			pg[i+1], pe[i+1] = 0, poly8SteepestBoxLarger(0, e[i+1]-poly8SteepestBoxAbs(g[i+1]))
+		}
+		if poly8SteepestBoxPushedAgainst(x[i+2], g[i+2], b.lower[i+2], b.upper[i+2]) {
+			pg[i+2], pe[i+2] = 0, poly8SteepestBoxLarger(0, e[i+2]-poly8SteepestBoxAbs(g[i+2]))
+		}
+		if poly8SteepestBoxPushedAgainst(x[i+3], g[i+3], b.lower[i+3], b.upper[i+3]) {
+			pg[i+3], pe[i+3] = 0, poly8SteepestBoxLarger(0, e[i+3]-poly8SteepestBoxAbs(g[i+3]))
 		}
 	}
 	return poly8SteepestBoxGradientMeasure(&pg, &pe, x, fx)
@@ -915,7 +924,39 @@ func poly8SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8SteepestBoxGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
+	for i := 0; i < 8; i += 4 {
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i]), 1)
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i])+e[i])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i]*w)
+		}
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i+1]), 1)
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i+1])+e[i+1])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i+1]*w)
+		}
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i+2]), 1)
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i+2])+e[i+2])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i+2]*w)
+		}
+		{
+			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i+3]), 1)
+			measure = poly8SteepestBoxLarger(measure, (poly8SteepestBoxAbs(g[i+3])+e[i+3])*w)
+			floor = poly8SteepestBoxLarger(floor, e[i+3]*w)
+		}
+	}
 	scale := poly8SteepestBoxLarger(poly8SteepestBoxAbs(fx), 1)
+	if !poly8SteepestBoxFinite(measure) {
+		return poly8SteepestBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// poly8SteepestBoxRelativeDividedFirst is poly8SteepestBoxGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func poly8SteepestBoxRelativeDividedFirst(g, e, x *[8]float64, scale float64) (measure, floor float64) {
 	for i := 0; i < 8; i += 4 {
 		{
 			w := poly8SteepestBoxLarger(poly8SteepestBoxAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
@@ -1034,14 +1075,46 @@ func poly8SteepestBoxSearchDirection(dir *poly8SteepestBoxDirection, x, g, d *[8
 	}
 	var free [8]float64
 	var active [8]bool
-	for i := range x {
-		margin := poly8SteepestBoxActiveMargin * poly8SteepestBoxLarger(1, poly8SteepestBoxAbs(x[i]))
-		if reach < margin {
-			margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+	for i := 0; i < 8; i += 4 {
+		{
+			margin := poly8SteepestBoxActiveMargin * poly8SteepestBoxLarger(1, poly8SteepestBoxAbs(x[i]))
+			if reach < margin {
+				margin = reach // Bertsekas 1982: ε = min(ε̄, ‖x − P(x − ∇f(x))‖)
+			}
+			active[i] = poly8SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
+			if !active[i] {
+				free[i] = g[i]
+			}
 		}
-		active[i] = poly8SteepestBoxPushedAgainst(x[i], g[i], b.lower[i]+margin, b.upper[i]-margin)
-		if !active[i] {
-			free[i] = g[i]
+		{
+			margin := poly8SteepestBoxActiveMargin * poly8SteepestBoxLarger(1, poly8SteepestBoxAbs(x[i+1]))
+			if reach < margin {
+				margin = reach
+			}
+			active[i+1] = poly8SteepestBoxPushedAgainst(x[i+1], g[i+1], b.lower[i+1]+margin, b.upper[i+1]-margin)
+			if !active[i+1] {
+				free[i+1] = g[i+1]
+			}
+		}
+		{
+			margin := poly8SteepestBoxActiveMargin * poly8SteepestBoxLarger(1, poly8SteepestBoxAbs(x[i+2]))
+			if reach < margin {
+				margin = reach
+			}
+			active[i+2] = poly8SteepestBoxPushedAgainst(x[i+2], g[i+2], b.lower[i+2]+margin, b.upper[i+2]-margin)
+			if !active[i+2] {
+				free[i+2] = g[i+2]
+			}
+		}
+		{
+			margin := poly8SteepestBoxActiveMargin * poly8SteepestBoxLarger(1, poly8SteepestBoxAbs(x[i+3]))
+			if reach < margin {
+				margin = reach
+			}
+			active[i+3] = poly8SteepestBoxPushedAgainst(x[i+3], g[i+3], b.lower[i+3]+margin, b.upper[i+3]-margin)
+			if !active[i+3] {
+				free[i+3] = g[i+3]
+			}
 		}
 	}
 	poly8SteepestBoxSolveDirection(dir, &free, d, diffs)

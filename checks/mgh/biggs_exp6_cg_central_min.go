@@ -676,11 +676,33 @@ func (s *biggsEXP6CGCentralDirection) compute(g, d *[6]float64) {
 func (s *biggsEXP6CGCentralDirection) update(step, change *[6]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		for i := 0; i < 4; i += 4 {
+			sy += step[i] * change[i]
+			ss += step[i] * step[i]
+			yy += change[i] * change[i]
+			sbs += s.curvature[i] * step[i] * step[i]
+			sy += step[i+1] * change[i+1]
+			ss += step[i+1] * step[i+1]
+			yy += change[i+1] * change[i+1]
+			sbs += s.curvature[i+1] * step[i+1] * step[i+1]
+			sy += step[i+2] * change[i+2]
+			ss += step[i+2] * step[i+2]
+			yy += change[i+2] * change[i+2]
+			sbs += s.curvature[i+2] * step[i+2] * step[i+2]
+			sy += step[i+3] * change[i+3]
+			ss += step[i+3] * step[i+3]
+			yy += change[i+3] * change[i+3]
+			sbs += s.curvature[i+3] * step[i+3] * step[i+3]
+		}
+		sy += step[4] * change[4]
+		ss += step[4] * step[4]
+		yy += change[4] * change[4]
+		sbs += s.curvature[4] * step[4] * step[4]
+		sy += step[5] * change[5]
+		ss += step[5] * step[5]
+		yy += change[5] * change[5]
+		sbs += s.curvature[5] * step[5] * step[5]
 	}
 	if !biggsEXP6CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
@@ -701,11 +723,50 @@ func (s *biggsEXP6CGCentralDirection) update(step, change *[6]float64) {
 		s.scaled = true
 	}
 	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && biggsEXP6CGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				bs := s.curvature[i] * step[i]
+				next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+				if next > 0 && biggsEXP6CGCentralFinite(next) {
+					s.curvature[i] = next
+				}
+			}
+			{
+				bs := s.curvature[i+1] * step[i+1]
+				next := s.curvature[i+1] - bs*bs*overSBS + change[i+1]*change[i+1]*overSY
+				if next > 0 && biggsEXP6CGCentralFinite(next) {
+					s.curvature[i+1] = next
+				}
+			}
+			{
+				bs := s.curvature[i+2] * step[i+2]
+				next := s.curvature[i+2] - bs*bs*overSBS + change[i+2]*change[i+2]*overSY
+				if next > 0 && biggsEXP6CGCentralFinite(next) {
+					s.curvature[i+2] = next
+				}
+			}
+			{
+				bs := s.curvature[i+3] * step[i+3]
+				next := s.curvature[i+3] - bs*bs*overSBS + change[i+3]*change[i+3]*overSY
+				if next > 0 && biggsEXP6CGCentralFinite(next) {
+					s.curvature[i+3] = next
+				}
+			}
+		}
+		{
+			bs := s.curvature[4] * step[4]
+			next := s.curvature[4] - bs*bs*overSBS + change[4]*change[4]*overSY
+			if next > 0 && biggsEXP6CGCentralFinite(next) {
+				s.curvature[4] = next
+			}
+		}
+		{
+			bs := s.curvature[5] * step[5]
+			next := s.curvature[5] - bs*bs*overSBS + change[5]*change[5]*overSY
+			if next > 0 && biggsEXP6CGCentralFinite(next) {
+				s.curvature[5] = next
+			}
 		}
 	}
 }
@@ -1218,7 +1279,51 @@ func biggsEXP6CGCentralStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	{
+		for i := 0; i < 4; i += 4 {
+			{
+				w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[i]), 1)
+				measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[i])+e[i])*w)
+				floor = biggsEXP6CGCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[i+1]), 1)
+				measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[i+1])+e[i+1])*w)
+				floor = biggsEXP6CGCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[i+2]), 1)
+				measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[i+2])+e[i+2])*w)
+				floor = biggsEXP6CGCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[i+3]), 1)
+				measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[i+3])+e[i+3])*w)
+				floor = biggsEXP6CGCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[4]), 1)
+			measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[4])+e[4])*w)
+			floor = biggsEXP6CGCentralLarger(floor, e[4]*w)
+		}
+		{
+			w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[5]), 1)
+			measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[5])+e[5])*w)
+			floor = biggsEXP6CGCentralLarger(floor, e[5]*w)
+		}
+	}
 	scale := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(fx), 1)
+	if !biggsEXP6CGCentralFinite(measure) {
+		return biggsEXP6CGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// biggsEXP6CGCentralRelativeDividedFirst is biggsEXP6CGCentralGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func biggsEXP6CGCentralRelativeDividedFirst(g, e, x *[6]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

@@ -676,11 +676,33 @@ func (s *variablyDimensioned10CGCentralDirection) compute(g, d *[10]float64) {
 func (s *variablyDimensioned10CGCentralDirection) update(step, change *[10]float64) {
 	s.change = *change
 	var sy, ss, yy, sbs float64 // one pass over the pair for all four products
-	for i := range step {
-		sy += step[i] * change[i]
-		ss += step[i] * step[i]
-		yy += change[i] * change[i]
-		sbs += s.curvature[i] * step[i] * step[i]
+	{
+		for i := 0; i < 8; i += 4 {
+			sy += step[i] * change[i]
+			ss += step[i] * step[i]
+			yy += change[i] * change[i]
+			sbs += s.curvature[i] * step[i] * step[i]
+			sy += step[i+1] * change[i+1]
+			ss += step[i+1] * step[i+1]
+			yy += change[i+1] * change[i+1]
+			sbs += s.curvature[i+1] * step[i+1] * step[i+1]
+			sy += step[i+2] * change[i+2]
+			ss += step[i+2] * step[i+2]
+			yy += change[i+2] * change[i+2]
+			sbs += s.curvature[i+2] * step[i+2] * step[i+2]
+			sy += step[i+3] * change[i+3]
+			ss += step[i+3] * step[i+3]
+			yy += change[i+3] * change[i+3]
+			sbs += s.curvature[i+3] * step[i+3] * step[i+3]
+		}
+		sy += step[8] * change[8]
+		ss += step[8] * step[8]
+		yy += change[8] * change[8]
+		sbs += s.curvature[8] * step[8] * step[8]
+		sy += step[9] * change[9]
+		ss += step[9] * step[9]
+		yy += change[9] * change[9]
+		sbs += s.curvature[9] * step[9] * step[9]
 	}
 	if !variablyDimensioned10CGCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
@@ -701,11 +723,50 @@ func (s *variablyDimensioned10CGCentralDirection) update(step, change *[10]float
 		s.scaled = true
 	}
 	overSBS, overSY := 1/sbs, 1/sy // two divisions, not two per unknown
-	for i := range s.curvature {
-		bs := s.curvature[i] * step[i]
-		next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
-		if next > 0 && variablyDimensioned10CGCentralFinite(next) {
-			s.curvature[i] = next
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				bs := s.curvature[i] * step[i]
+				next := s.curvature[i] - bs*bs*overSBS + change[i]*change[i]*overSY // Gilbert & Lemaréchal 1989, diagonal of N&W eq. 6.19
+				if next > 0 && variablyDimensioned10CGCentralFinite(next) {
+					s.curvature[i] = next
+				}
+			}
+			{
+				bs := s.curvature[i+1] * step[i+1]
+				next := s.curvature[i+1] - bs*bs*overSBS + change[i+1]*change[i+1]*overSY
+				if next > 0 && variablyDimensioned10CGCentralFinite(next) {
+					s.curvature[i+1] = next
+				}
+			}
+			{
+				bs := s.curvature[i+2] * step[i+2]
+				next := s.curvature[i+2] - bs*bs*overSBS + change[i+2]*change[i+2]*overSY
+				if next > 0 && variablyDimensioned10CGCentralFinite(next) {
+					s.curvature[i+2] = next
+				}
+			}
+			{
+				bs := s.curvature[i+3] * step[i+3]
+				next := s.curvature[i+3] - bs*bs*overSBS + change[i+3]*change[i+3]*overSY
+				if next > 0 && variablyDimensioned10CGCentralFinite(next) {
+					s.curvature[i+3] = next
+				}
+			}
+		}
+		{
+			bs := s.curvature[8] * step[8]
+			next := s.curvature[8] - bs*bs*overSBS + change[8]*change[8]*overSY
+			if next > 0 && variablyDimensioned10CGCentralFinite(next) {
+				s.curvature[8] = next
+			}
+		}
+		{
+			bs := s.curvature[9] * step[9]
+			next := s.curvature[9] - bs*bs*overSBS + change[9]*change[9]*overSY
+			if next > 0 && variablyDimensioned10CGCentralFinite(next) {
+				s.curvature[9] = next
+			}
 		}
 	}
 }
@@ -1218,7 +1279,51 @@ func variablyDimensioned10CGCentralStationarity(g, e, x *[10]float64, fx float64
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func variablyDimensioned10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	{
+		for i := 0; i < 8; i += 4 {
+			{
+				w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[i]), 1)
+				measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[i])+e[i])*w)
+				floor = variablyDimensioned10CGCentralLarger(floor, e[i]*w)
+			}
+			{
+				w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[i+1]), 1)
+				measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[i+1])+e[i+1])*w)
+				floor = variablyDimensioned10CGCentralLarger(floor, e[i+1]*w)
+			}
+			{
+				w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[i+2]), 1)
+				measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[i+2])+e[i+2])*w)
+				floor = variablyDimensioned10CGCentralLarger(floor, e[i+2]*w)
+			}
+			{
+				w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[i+3]), 1)
+				measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[i+3])+e[i+3])*w)
+				floor = variablyDimensioned10CGCentralLarger(floor, e[i+3]*w)
+			}
+		}
+		{
+			w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[8]), 1)
+			measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[8])+e[8])*w)
+			floor = variablyDimensioned10CGCentralLarger(floor, e[8]*w)
+		}
+		{
+			w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[9]), 1)
+			measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[9])+e[9])*w)
+			floor = variablyDimensioned10CGCentralLarger(floor, e[9]*w)
+		}
+	}
 	scale := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(fx), 1)
+	if !variablyDimensioned10CGCentralFinite(measure) {
+		return variablyDimensioned10CGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
+	}
+	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
+}
+
+// variablyDimensioned10CGCentralRelativeDividedFirst is variablyDimensioned10CGCentralGradientMeasure with each max(|x_i|, 1) divided
+// by scale before the product, which then cannot overflow where the
+// measure itself does not.
+func variablyDimensioned10CGCentralRelativeDividedFirst(g, e, x *[10]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{
