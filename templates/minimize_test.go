@@ -432,38 +432,3 @@ func TestProportionalRiseOutlastsRounding(t *testing.T) {
 		t.Fatalf("status %d (converged) at x = %v, from a wrong gradient", out.status, out.x)
 	}
 }
-
-// The relative gradient measure max_i (|g_i| + e_i)·max(|x_i|, 1)/max(|f|, 1)
-// (Dennis & Schnabel 1983, §7.2) divides once, after the maximum; it agrees
-// with the measure divided per component to rounding, and where a product
-// overflows it falls back to dividing first, so a finite measure stays
-// finite.
-func TestRelativeGradientDividesOnce(t *testing.T) {
-	state := uint64(11)
-	random := func() float64 {
-		state = state*6364136223846793005 + 1442695040888963407 // Knuth's MMIX LCG (common practice)
-		return float64(int64(state>>11))/float64(1<<52) - 1
-	}
-	for k := 0; k < 1000; k++ {
-		var g, e, x vec
-		for i := range g {
-			g[i] = random() * math.Pow(10, 6*random())
-			e[i] = math.Abs(random()) * 1e-8
-			x[i] = random() * math.Pow(10, 4*random())
-		}
-		fx := random() * math.Pow(10, 6*random())
-		measure, floor := relativeGradient(&g, &e, &x, fx)
-		wantMeasure, wantFloor := relativeDividedFirst(&g, &e, &x, math.Max(math.Abs(fx), 1))
-		if math.Abs(measure-wantMeasure) > 4e-16*wantMeasure || math.Abs(floor-wantFloor) > 4e-16*wantFloor {
-			t.Fatalf("g = %v, e = %v, x = %v, f = %g: measure %g and floor %g, dividing per component %g and %g", g, e, x, fx, measure, floor, wantMeasure, wantFloor)
-		}
-	}
-	g, e, x := vec{1e300, 0}, vec{0, 0}, vec{1e10, 0}
-	if measure, _ := relativeGradient(&g, &e, &x, 1e300); measure != 1e10 {
-		t.Errorf("|g| = 1e300 at |x| = 1e10 with f = 1e300: measure %g, want 1e10 (the product overflows; dividing first does not)", measure)
-	}
-	g[0] = math.NaN()
-	if measure, _ := relativeGradient(&g, &e, &x, 1); !math.IsNaN(measure) {
-		t.Errorf("a NaN gradient gives the measure %g, want NaN", measure)
-	}
-}

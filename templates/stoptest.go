@@ -25,22 +25,7 @@ func gradientMeasure(g, e, x *vec, fx elem) (measure, floor elem) {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func relativeGradient(g, e, x *vec, fx elem) (measure, floor elem) {
-	for i := range g {
-		w := larger(abs(x[i]), 1)
-		measure = larger(measure, (abs(g[i])+e[i])*w)
-		floor = larger(floor, e[i]*w)
-	}
 	scale := larger(abs(fx), 1)
-	if !finite(measure) {
-		return relativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// relativeDividedFirst is relativeGradient with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func relativeDividedFirst(g, e, x *vec, scale elem) (measure, floor elem) {
 	for i := range g {
 		w := larger(abs(x[i]), 1) / scale // D&S §7.2: relative gradient
 		measure = larger(measure, (abs(g[i])+e[i])*w)

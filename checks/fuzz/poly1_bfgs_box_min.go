@@ -929,24 +929,7 @@ func poly1BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1BFGSBoxGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly1BFGSBoxLarger(poly1BFGSBoxAbs(x[0]), 1)
-			measure = poly1BFGSBoxLarger(measure, (poly1BFGSBoxAbs(g[0])+e[0])*w)
-			floor = poly1BFGSBoxLarger(floor, e[0]*w)
-		}
-	}
 	scale := poly1BFGSBoxLarger(poly1BFGSBoxAbs(fx), 1)
-	if !poly1BFGSBoxFinite(measure) {
-		return poly1BFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly1BFGSBoxRelativeDividedFirst is poly1BFGSBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly1BFGSBoxRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly1BFGSBoxLarger(poly1BFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

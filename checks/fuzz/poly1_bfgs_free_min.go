@@ -896,24 +896,7 @@ func poly1BFGSFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1BFGSFree
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1BFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly1BFGSFreeLarger(poly1BFGSFreeAbs(x[0]), 1)
-			measure = poly1BFGSFreeLarger(measure, (poly1BFGSFreeAbs(g[0])+e[0])*w)
-			floor = poly1BFGSFreeLarger(floor, e[0]*w)
-		}
-	}
 	scale := poly1BFGSFreeLarger(poly1BFGSFreeAbs(fx), 1)
-	if !poly1BFGSFreeFinite(measure) {
-		return poly1BFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly1BFGSFreeRelativeDividedFirst is poly1BFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly1BFGSFreeRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly1BFGSFreeLarger(poly1BFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

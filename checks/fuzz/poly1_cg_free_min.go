@@ -961,24 +961,7 @@ func poly1CGFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1CGFreeBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1CGFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly1CGFreeLarger(poly1CGFreeAbs(x[0]), 1)
-			measure = poly1CGFreeLarger(measure, (poly1CGFreeAbs(g[0])+e[0])*w)
-			floor = poly1CGFreeLarger(floor, e[0]*w)
-		}
-	}
 	scale := poly1CGFreeLarger(poly1CGFreeAbs(fx), 1)
-	if !poly1CGFreeFinite(measure) {
-		return poly1CGFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly1CGFreeRelativeDividedFirst is poly1CGFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly1CGFreeRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly1CGFreeLarger(poly1CGFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1096,24 +1096,7 @@ func poly1LBFGSFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1LBFGSFr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1LBFGSFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly1LBFGSFreeLarger(poly1LBFGSFreeAbs(x[0]), 1)
-			measure = poly1LBFGSFreeLarger(measure, (poly1LBFGSFreeAbs(g[0])+e[0])*w)
-			floor = poly1LBFGSFreeLarger(floor, e[0]*w)
-		}
-	}
 	scale := poly1LBFGSFreeLarger(poly1LBFGSFreeAbs(fx), 1)
-	if !poly1LBFGSFreeFinite(measure) {
-		return poly1LBFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly1LBFGSFreeRelativeDividedFirst is poly1LBFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly1LBFGSFreeRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly1LBFGSFreeLarger(poly1LBFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

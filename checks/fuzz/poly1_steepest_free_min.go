@@ -855,24 +855,7 @@ func poly1SteepestFreeStationarity(g, e, x *[1]float64, fx float64, b *poly1Stee
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly1SteepestFreeGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly1SteepestFreeLarger(poly1SteepestFreeAbs(x[0]), 1)
-			measure = poly1SteepestFreeLarger(measure, (poly1SteepestFreeAbs(g[0])+e[0])*w)
-			floor = poly1SteepestFreeLarger(floor, e[0]*w)
-		}
-	}
 	scale := poly1SteepestFreeLarger(poly1SteepestFreeAbs(fx), 1)
-	if !poly1SteepestFreeFinite(measure) {
-		return poly1SteepestFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly1SteepestFreeRelativeDividedFirst is poly1SteepestFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly1SteepestFreeRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly1SteepestFreeLarger(poly1SteepestFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -959,29 +959,7 @@ func poly2BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2BFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2BFGSBoxLarger(poly2BFGSBoxAbs(x[0]), 1)
-			measure = poly2BFGSBoxLarger(measure, (poly2BFGSBoxAbs(g[0])+e[0])*w)
-			floor = poly2BFGSBoxLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2BFGSBoxLarger(poly2BFGSBoxAbs(x[1]), 1)
-			measure = poly2BFGSBoxLarger(measure, (poly2BFGSBoxAbs(g[1])+e[1])*w)
-			floor = poly2BFGSBoxLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2BFGSBoxLarger(poly2BFGSBoxAbs(fx), 1)
-	if !poly2BFGSBoxFinite(measure) {
-		return poly2BFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2BFGSBoxRelativeDividedFirst is poly2BFGSBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2BFGSBoxRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2BFGSBoxLarger(poly2BFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -922,29 +922,7 @@ func poly2BFGSFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2BFGSFree
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2BFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2BFGSFreeLarger(poly2BFGSFreeAbs(x[0]), 1)
-			measure = poly2BFGSFreeLarger(measure, (poly2BFGSFreeAbs(g[0])+e[0])*w)
-			floor = poly2BFGSFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2BFGSFreeLarger(poly2BFGSFreeAbs(x[1]), 1)
-			measure = poly2BFGSFreeLarger(measure, (poly2BFGSFreeAbs(g[1])+e[1])*w)
-			floor = poly2BFGSFreeLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2BFGSFreeLarger(poly2BFGSFreeAbs(fx), 1)
-	if !poly2BFGSFreeFinite(measure) {
-		return poly2BFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2BFGSFreeRelativeDividedFirst is poly2BFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2BFGSFreeRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2BFGSFreeLarger(poly2BFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

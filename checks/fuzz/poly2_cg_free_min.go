@@ -984,29 +984,7 @@ func poly2CGFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2CGFreeBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2CGFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2CGFreeLarger(poly2CGFreeAbs(x[0]), 1)
-			measure = poly2CGFreeLarger(measure, (poly2CGFreeAbs(g[0])+e[0])*w)
-			floor = poly2CGFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2CGFreeLarger(poly2CGFreeAbs(x[1]), 1)
-			measure = poly2CGFreeLarger(measure, (poly2CGFreeAbs(g[1])+e[1])*w)
-			floor = poly2CGFreeLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2CGFreeLarger(poly2CGFreeAbs(fx), 1)
-	if !poly2CGFreeFinite(measure) {
-		return poly2CGFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2CGFreeRelativeDividedFirst is poly2CGFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2CGFreeRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2CGFreeLarger(poly2CGFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1168,29 +1168,7 @@ func poly2LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2LBFGSBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(x[0]), 1)
-			measure = poly2LBFGSBoxLarger(measure, (poly2LBFGSBoxAbs(g[0])+e[0])*w)
-			floor = poly2LBFGSBoxLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(x[1]), 1)
-			measure = poly2LBFGSBoxLarger(measure, (poly2LBFGSBoxAbs(g[1])+e[1])*w)
-			floor = poly2LBFGSBoxLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(fx), 1)
-	if !poly2LBFGSBoxFinite(measure) {
-		return poly2LBFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2LBFGSBoxRelativeDividedFirst is poly2LBFGSBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2LBFGSBoxRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2LBFGSBoxLarger(poly2LBFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

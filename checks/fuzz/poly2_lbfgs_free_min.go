@@ -1131,29 +1131,7 @@ func poly2LBFGSFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2LBFGSFr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2LBFGSFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(x[0]), 1)
-			measure = poly2LBFGSFreeLarger(measure, (poly2LBFGSFreeAbs(g[0])+e[0])*w)
-			floor = poly2LBFGSFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(x[1]), 1)
-			measure = poly2LBFGSFreeLarger(measure, (poly2LBFGSFreeAbs(g[1])+e[1])*w)
-			floor = poly2LBFGSFreeLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(fx), 1)
-	if !poly2LBFGSFreeFinite(measure) {
-		return poly2LBFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2LBFGSFreeRelativeDividedFirst is poly2LBFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2LBFGSFreeRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2LBFGSFreeLarger(poly2LBFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

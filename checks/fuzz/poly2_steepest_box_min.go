@@ -900,29 +900,7 @@ func poly2SteepestBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2SteepestBoxGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2SteepestBoxLarger(poly2SteepestBoxAbs(x[0]), 1)
-			measure = poly2SteepestBoxLarger(measure, (poly2SteepestBoxAbs(g[0])+e[0])*w)
-			floor = poly2SteepestBoxLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2SteepestBoxLarger(poly2SteepestBoxAbs(x[1]), 1)
-			measure = poly2SteepestBoxLarger(measure, (poly2SteepestBoxAbs(g[1])+e[1])*w)
-			floor = poly2SteepestBoxLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2SteepestBoxLarger(poly2SteepestBoxAbs(fx), 1)
-	if !poly2SteepestBoxFinite(measure) {
-		return poly2SteepestBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2SteepestBoxRelativeDividedFirst is poly2SteepestBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2SteepestBoxRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2SteepestBoxLarger(poly2SteepestBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

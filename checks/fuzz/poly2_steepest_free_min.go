@@ -863,29 +863,7 @@ func poly2SteepestFreeStationarity(g, e, x *[2]float64, fx float64, b *poly2Stee
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly2SteepestFreeGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly2SteepestFreeLarger(poly2SteepestFreeAbs(x[0]), 1)
-			measure = poly2SteepestFreeLarger(measure, (poly2SteepestFreeAbs(g[0])+e[0])*w)
-			floor = poly2SteepestFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly2SteepestFreeLarger(poly2SteepestFreeAbs(x[1]), 1)
-			measure = poly2SteepestFreeLarger(measure, (poly2SteepestFreeAbs(g[1])+e[1])*w)
-			floor = poly2SteepestFreeLarger(floor, e[1]*w)
-		}
-	}
 	scale := poly2SteepestFreeLarger(poly2SteepestFreeAbs(fx), 1)
-	if !poly2SteepestFreeFinite(measure) {
-		return poly2SteepestFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly2SteepestFreeRelativeDividedFirst is poly2SteepestFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly2SteepestFreeRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly2SteepestFreeLarger(poly2SteepestFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -993,34 +993,7 @@ func poly3BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3BFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[0]), 1)
-			measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[0])+e[0])*w)
-			floor = poly3BFGSBoxLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[1]), 1)
-			measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[1])+e[1])*w)
-			floor = poly3BFGSBoxLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[2]), 1)
-			measure = poly3BFGSBoxLarger(measure, (poly3BFGSBoxAbs(g[2])+e[2])*w)
-			floor = poly3BFGSBoxLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3BFGSBoxLarger(poly3BFGSBoxAbs(fx), 1)
-	if !poly3BFGSBoxFinite(measure) {
-		return poly3BFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3BFGSBoxRelativeDividedFirst is poly3BFGSBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3BFGSBoxRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3BFGSBoxLarger(poly3BFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -952,34 +952,7 @@ func poly3BFGSFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3BFGSFree
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3BFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[0]), 1)
-			measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[0])+e[0])*w)
-			floor = poly3BFGSFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[1]), 1)
-			measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[1])+e[1])*w)
-			floor = poly3BFGSFreeLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[2]), 1)
-			measure = poly3BFGSFreeLarger(measure, (poly3BFGSFreeAbs(g[2])+e[2])*w)
-			floor = poly3BFGSFreeLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3BFGSFreeLarger(poly3BFGSFreeAbs(fx), 1)
-	if !poly3BFGSFreeFinite(measure) {
-		return poly3BFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3BFGSFreeRelativeDividedFirst is poly3BFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3BFGSFreeRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3BFGSFreeLarger(poly3BFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1007,34 +1007,7 @@ func poly3CGFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3CGFreeBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3CGFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3CGFreeLarger(poly3CGFreeAbs(x[0]), 1)
-			measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[0])+e[0])*w)
-			floor = poly3CGFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3CGFreeLarger(poly3CGFreeAbs(x[1]), 1)
-			measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[1])+e[1])*w)
-			floor = poly3CGFreeLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3CGFreeLarger(poly3CGFreeAbs(x[2]), 1)
-			measure = poly3CGFreeLarger(measure, (poly3CGFreeAbs(g[2])+e[2])*w)
-			floor = poly3CGFreeLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3CGFreeLarger(poly3CGFreeAbs(fx), 1)
-	if !poly3CGFreeFinite(measure) {
-		return poly3CGFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3CGFreeRelativeDividedFirst is poly3CGFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3CGFreeRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3CGFreeLarger(poly3CGFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1207,34 +1207,7 @@ func poly3LBFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3LBFGSBoxGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[0]), 1)
-			measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[0])+e[0])*w)
-			floor = poly3LBFGSBoxLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[1]), 1)
-			measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[1])+e[1])*w)
-			floor = poly3LBFGSBoxLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[2]), 1)
-			measure = poly3LBFGSBoxLarger(measure, (poly3LBFGSBoxAbs(g[2])+e[2])*w)
-			floor = poly3LBFGSBoxLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(fx), 1)
-	if !poly3LBFGSBoxFinite(measure) {
-		return poly3LBFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3LBFGSBoxRelativeDividedFirst is poly3LBFGSBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3LBFGSBoxRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3LBFGSBoxLarger(poly3LBFGSBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1166,34 +1166,7 @@ func poly3LBFGSFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3LBFGSFr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3LBFGSFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[0]), 1)
-			measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[0])+e[0])*w)
-			floor = poly3LBFGSFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[1]), 1)
-			measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[1])+e[1])*w)
-			floor = poly3LBFGSFreeLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[2]), 1)
-			measure = poly3LBFGSFreeLarger(measure, (poly3LBFGSFreeAbs(g[2])+e[2])*w)
-			floor = poly3LBFGSFreeLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(fx), 1)
-	if !poly3LBFGSFreeFinite(measure) {
-		return poly3LBFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3LBFGSFreeRelativeDividedFirst is poly3LBFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3LBFGSFreeRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3LBFGSFreeLarger(poly3LBFGSFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -871,34 +871,7 @@ func poly3SteepestFreeStationarity(g, e, x *[3]float64, fx float64, b *poly3Stee
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3SteepestFreeGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[0]), 1)
-			measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[0])+e[0])*w)
-			floor = poly3SteepestFreeLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[1]), 1)
-			measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[1])+e[1])*w)
-			floor = poly3SteepestFreeLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[2]), 1)
-			measure = poly3SteepestFreeLarger(measure, (poly3SteepestFreeAbs(g[2])+e[2])*w)
-			floor = poly3SteepestFreeLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3SteepestFreeLarger(poly3SteepestFreeAbs(fx), 1)
-	if !poly3SteepestFreeFinite(measure) {
-		return poly3SteepestFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3SteepestFreeRelativeDividedFirst is poly3SteepestFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3SteepestFreeRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3SteepestFreeLarger(poly3SteepestFreeAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

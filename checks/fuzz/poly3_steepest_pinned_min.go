@@ -912,34 +912,7 @@ func poly3SteepestPinnedPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly3SteepestPinnedGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[0]), 1)
-			measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[0])+e[0])*w)
-			floor = poly3SteepestPinnedLarger(floor, e[0]*w)
-		}
-		{
-			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[1]), 1)
-			measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[1])+e[1])*w)
-			floor = poly3SteepestPinnedLarger(floor, e[1]*w)
-		}
-		{
-			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[2]), 1)
-			measure = poly3SteepestPinnedLarger(measure, (poly3SteepestPinnedAbs(g[2])+e[2])*w)
-			floor = poly3SteepestPinnedLarger(floor, e[2]*w)
-		}
-	}
 	scale := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(fx), 1)
-	if !poly3SteepestPinnedFinite(measure) {
-		return poly3SteepestPinnedRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly3SteepestPinnedRelativeDividedFirst is poly3SteepestPinnedGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly3SteepestPinnedRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := poly3SteepestPinnedLarger(poly3SteepestPinnedAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

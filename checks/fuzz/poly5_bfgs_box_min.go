@@ -1021,46 +1021,7 @@ func poly5BFGSBoxPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5BFGSBoxGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 4; i += 4 {
-			{
-				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i]), 1)
-				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i])+e[i])*w)
-				floor = poly5BFGSBoxLarger(floor, e[i]*w)
-			}
-			{
-				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i+1]), 1)
-				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i+1])+e[i+1])*w)
-				floor = poly5BFGSBoxLarger(floor, e[i+1]*w)
-			}
-			{
-				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i+2]), 1)
-				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i+2])+e[i+2])*w)
-				floor = poly5BFGSBoxLarger(floor, e[i+2]*w)
-			}
-			{
-				w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[i+3]), 1)
-				measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[i+3])+e[i+3])*w)
-				floor = poly5BFGSBoxLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := poly5BFGSBoxLarger(poly5BFGSBoxAbs(x[4]), 1)
-			measure = poly5BFGSBoxLarger(measure, (poly5BFGSBoxAbs(g[4])+e[4])*w)
-			floor = poly5BFGSBoxLarger(floor, e[4]*w)
-		}
-	}
 	scale := poly5BFGSBoxLarger(poly5BFGSBoxAbs(fx), 1)
-	if !poly5BFGSBoxFinite(measure) {
-		return poly5BFGSBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly5BFGSBoxRelativeDividedFirst is poly5BFGSBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly5BFGSBoxRelativeDividedFirst(g, e, x *[5]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

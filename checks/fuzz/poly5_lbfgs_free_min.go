@@ -1160,46 +1160,7 @@ func poly5LBFGSFreeStationarity(g, e, x *[5]float64, fx float64, b *poly5LBFGSFr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly5LBFGSFreeGradientMeasure(g, e, x *[5]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 4; i += 4 {
-			{
-				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i]), 1)
-				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i])+e[i])*w)
-				floor = poly5LBFGSFreeLarger(floor, e[i]*w)
-			}
-			{
-				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i+1]), 1)
-				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i+1])+e[i+1])*w)
-				floor = poly5LBFGSFreeLarger(floor, e[i+1]*w)
-			}
-			{
-				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i+2]), 1)
-				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i+2])+e[i+2])*w)
-				floor = poly5LBFGSFreeLarger(floor, e[i+2]*w)
-			}
-			{
-				w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[i+3]), 1)
-				measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[i+3])+e[i+3])*w)
-				floor = poly5LBFGSFreeLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(x[4]), 1)
-			measure = poly5LBFGSFreeLarger(measure, (poly5LBFGSFreeAbs(g[4])+e[4])*w)
-			floor = poly5LBFGSFreeLarger(floor, e[4]*w)
-		}
-	}
 	scale := poly5LBFGSFreeLarger(poly5LBFGSFreeAbs(fx), 1)
-	if !poly5LBFGSFreeFinite(measure) {
-		return poly5LBFGSFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly5LBFGSFreeRelativeDividedFirst is poly5LBFGSFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly5LBFGSFreeRelativeDividedFirst(g, e, x *[5]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

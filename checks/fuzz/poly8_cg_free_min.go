@@ -1030,39 +1030,7 @@ func poly8CGFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8CGFreeBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8CGFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
-	for i := 0; i < 8; i += 4 {
-		{
-			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i]), 1)
-			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i])+e[i])*w)
-			floor = poly8CGFreeLarger(floor, e[i]*w)
-		}
-		{
-			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+1]), 1)
-			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+1])+e[i+1])*w)
-			floor = poly8CGFreeLarger(floor, e[i+1]*w)
-		}
-		{
-			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+2]), 1)
-			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+2])+e[i+2])*w)
-			floor = poly8CGFreeLarger(floor, e[i+2]*w)
-		}
-		{
-			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i+3]), 1)
-			measure = poly8CGFreeLarger(measure, (poly8CGFreeAbs(g[i+3])+e[i+3])*w)
-			floor = poly8CGFreeLarger(floor, e[i+3]*w)
-		}
-	}
 	scale := poly8CGFreeLarger(poly8CGFreeAbs(fx), 1)
-	if !poly8CGFreeFinite(measure) {
-		return poly8CGFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly8CGFreeRelativeDividedFirst is poly8CGFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly8CGFreeRelativeDividedFirst(g, e, x *[8]float64, scale float64) (measure, floor float64) {
 	for i := 0; i < 8; i += 4 {
 		{
 			w := poly8CGFreeLarger(poly8CGFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient

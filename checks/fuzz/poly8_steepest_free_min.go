@@ -879,39 +879,7 @@ func poly8SteepestFreeStationarity(g, e, x *[8]float64, fx float64, b *poly8Stee
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func poly8SteepestFreeGradientMeasure(g, e, x *[8]float64, fx float64) (measure, floor float64) {
-	for i := 0; i < 8; i += 4 {
-		{
-			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i]), 1)
-			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i])+e[i])*w)
-			floor = poly8SteepestFreeLarger(floor, e[i]*w)
-		}
-		{
-			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i+1]), 1)
-			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i+1])+e[i+1])*w)
-			floor = poly8SteepestFreeLarger(floor, e[i+1]*w)
-		}
-		{
-			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i+2]), 1)
-			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i+2])+e[i+2])*w)
-			floor = poly8SteepestFreeLarger(floor, e[i+2]*w)
-		}
-		{
-			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i+3]), 1)
-			measure = poly8SteepestFreeLarger(measure, (poly8SteepestFreeAbs(g[i+3])+e[i+3])*w)
-			floor = poly8SteepestFreeLarger(floor, e[i+3]*w)
-		}
-	}
 	scale := poly8SteepestFreeLarger(poly8SteepestFreeAbs(fx), 1)
-	if !poly8SteepestFreeFinite(measure) {
-		return poly8SteepestFreeRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// poly8SteepestFreeRelativeDividedFirst is poly8SteepestFreeGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func poly8SteepestFreeRelativeDividedFirst(g, e, x *[8]float64, scale float64) (measure, floor float64) {
 	for i := 0; i < 8; i += 4 {
 		{
 			w := poly8SteepestFreeLarger(poly8SteepestFreeAbs(x[i]), 1) / scale // D&S §7.2: relative gradient

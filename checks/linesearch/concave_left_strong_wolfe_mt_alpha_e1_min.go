@@ -855,24 +855,7 @@ func concaveLeftStrongWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftStrongWolfeMTAlphaE1Larger(concaveLeftStrongWolfeMTAlphaE1Abs(x[0]), 1)
-			measure = concaveLeftStrongWolfeMTAlphaE1Larger(measure, (concaveLeftStrongWolfeMTAlphaE1Abs(g[0])+e[0])*w)
-			floor = concaveLeftStrongWolfeMTAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftStrongWolfeMTAlphaE1Larger(concaveLeftStrongWolfeMTAlphaE1Abs(fx), 1)
-	if !concaveLeftStrongWolfeMTAlphaE1Finite(measure) {
-		return concaveLeftStrongWolfeMTAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftStrongWolfeMTAlphaE1RelativeDividedFirst is concaveLeftStrongWolfeMTAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftStrongWolfeMTAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftStrongWolfeMTAlphaE1Larger(concaveLeftStrongWolfeMTAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveLeftStrongWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(x[0]), 1)
-			measure = concaveLeftStrongWolfeMTAlphaE3Larger(measure, (concaveLeftStrongWolfeMTAlphaE3Abs(g[0])+e[0])*w)
-			floor = concaveLeftStrongWolfeMTAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(fx), 1)
-	if !concaveLeftStrongWolfeMTAlphaE3Finite(measure) {
-		return concaveLeftStrongWolfeMTAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftStrongWolfeMTAlphaE3RelativeDividedFirst is concaveLeftStrongWolfeMTAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftStrongWolfeMTAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -856,24 +856,7 @@ func concaveLeftStrongWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float6
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftStrongWolfeMTAlphaEm3Larger(concaveLeftStrongWolfeMTAlphaEm3Abs(x[0]), 1)
-			measure = concaveLeftStrongWolfeMTAlphaEm3Larger(measure, (concaveLeftStrongWolfeMTAlphaEm3Abs(g[0])+e[0])*w)
-			floor = concaveLeftStrongWolfeMTAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftStrongWolfeMTAlphaEm3Larger(concaveLeftStrongWolfeMTAlphaEm3Abs(fx), 1)
-	if !concaveLeftStrongWolfeMTAlphaEm3Finite(measure) {
-		return concaveLeftStrongWolfeMTAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftStrongWolfeMTAlphaEm3RelativeDividedFirst is concaveLeftStrongWolfeMTAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftStrongWolfeMTAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftStrongWolfeMTAlphaEm3Larger(concaveLeftStrongWolfeMTAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveLeftStrongWolfeNWAlphaE3Stationarity(g, e, x *[1]float64, fx float64
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftStrongWolfeNWAlphaE3Larger(concaveLeftStrongWolfeNWAlphaE3Abs(x[0]), 1)
-			measure = concaveLeftStrongWolfeNWAlphaE3Larger(measure, (concaveLeftStrongWolfeNWAlphaE3Abs(g[0])+e[0])*w)
-			floor = concaveLeftStrongWolfeNWAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftStrongWolfeNWAlphaE3Larger(concaveLeftStrongWolfeNWAlphaE3Abs(fx), 1)
-	if !concaveLeftStrongWolfeNWAlphaE3Finite(measure) {
-		return concaveLeftStrongWolfeNWAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftStrongWolfeNWAlphaE3RelativeDividedFirst is concaveLeftStrongWolfeNWAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftStrongWolfeNWAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftStrongWolfeNWAlphaE3Larger(concaveLeftStrongWolfeNWAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

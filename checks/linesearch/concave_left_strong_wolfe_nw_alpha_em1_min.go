@@ -856,24 +856,7 @@ func concaveLeftStrongWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float6
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftStrongWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftStrongWolfeNWAlphaEm1Larger(concaveLeftStrongWolfeNWAlphaEm1Abs(x[0]), 1)
-			measure = concaveLeftStrongWolfeNWAlphaEm1Larger(measure, (concaveLeftStrongWolfeNWAlphaEm1Abs(g[0])+e[0])*w)
-			floor = concaveLeftStrongWolfeNWAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftStrongWolfeNWAlphaEm1Larger(concaveLeftStrongWolfeNWAlphaEm1Abs(fx), 1)
-	if !concaveLeftStrongWolfeNWAlphaEm1Finite(measure) {
-		return concaveLeftStrongWolfeNWAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftStrongWolfeNWAlphaEm1RelativeDividedFirst is concaveLeftStrongWolfeNWAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftStrongWolfeNWAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftStrongWolfeNWAlphaEm1Larger(concaveLeftStrongWolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

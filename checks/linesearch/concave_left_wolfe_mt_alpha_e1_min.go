@@ -855,24 +855,7 @@ func concaveLeftWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *c
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftWolfeMTAlphaE1Larger(concaveLeftWolfeMTAlphaE1Abs(x[0]), 1)
-			measure = concaveLeftWolfeMTAlphaE1Larger(measure, (concaveLeftWolfeMTAlphaE1Abs(g[0])+e[0])*w)
-			floor = concaveLeftWolfeMTAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftWolfeMTAlphaE1Larger(concaveLeftWolfeMTAlphaE1Abs(fx), 1)
-	if !concaveLeftWolfeMTAlphaE1Finite(measure) {
-		return concaveLeftWolfeMTAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftWolfeMTAlphaE1RelativeDividedFirst is concaveLeftWolfeMTAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftWolfeMTAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftWolfeMTAlphaE1Larger(concaveLeftWolfeMTAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveLeftWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *c
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(x[0]), 1)
-			measure = concaveLeftWolfeMTAlphaE3Larger(measure, (concaveLeftWolfeMTAlphaE3Abs(g[0])+e[0])*w)
-			floor = concaveLeftWolfeMTAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(fx), 1)
-	if !concaveLeftWolfeMTAlphaE3Finite(measure) {
-		return concaveLeftWolfeMTAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftWolfeMTAlphaE3RelativeDividedFirst is concaveLeftWolfeMTAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftWolfeMTAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

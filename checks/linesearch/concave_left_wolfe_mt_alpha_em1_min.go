@@ -855,24 +855,7 @@ func concaveLeftWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftWolfeMTAlphaEm1Larger(concaveLeftWolfeMTAlphaEm1Abs(x[0]), 1)
-			measure = concaveLeftWolfeMTAlphaEm1Larger(measure, (concaveLeftWolfeMTAlphaEm1Abs(g[0])+e[0])*w)
-			floor = concaveLeftWolfeMTAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftWolfeMTAlphaEm1Larger(concaveLeftWolfeMTAlphaEm1Abs(fx), 1)
-	if !concaveLeftWolfeMTAlphaEm1Finite(measure) {
-		return concaveLeftWolfeMTAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftWolfeMTAlphaEm1RelativeDividedFirst is concaveLeftWolfeMTAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftWolfeMTAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftWolfeMTAlphaEm1Larger(concaveLeftWolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

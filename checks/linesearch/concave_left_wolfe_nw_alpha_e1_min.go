@@ -855,24 +855,7 @@ func concaveLeftWolfeNWAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *c
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftWolfeNWAlphaE1Larger(concaveLeftWolfeNWAlphaE1Abs(x[0]), 1)
-			measure = concaveLeftWolfeNWAlphaE1Larger(measure, (concaveLeftWolfeNWAlphaE1Abs(g[0])+e[0])*w)
-			floor = concaveLeftWolfeNWAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftWolfeNWAlphaE1Larger(concaveLeftWolfeNWAlphaE1Abs(fx), 1)
-	if !concaveLeftWolfeNWAlphaE1Finite(measure) {
-		return concaveLeftWolfeNWAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftWolfeNWAlphaE1RelativeDividedFirst is concaveLeftWolfeNWAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftWolfeNWAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftWolfeNWAlphaE1Larger(concaveLeftWolfeNWAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

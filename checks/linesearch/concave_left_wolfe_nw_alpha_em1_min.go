@@ -855,24 +855,7 @@ func concaveLeftWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(x[0]), 1)
-			measure = concaveLeftWolfeNWAlphaEm1Larger(measure, (concaveLeftWolfeNWAlphaEm1Abs(g[0])+e[0])*w)
-			floor = concaveLeftWolfeNWAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(fx), 1)
-	if !concaveLeftWolfeNWAlphaEm1Finite(measure) {
-		return concaveLeftWolfeNWAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftWolfeNWAlphaEm1RelativeDividedFirst is concaveLeftWolfeNWAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftWolfeNWAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveLeftWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveLeftWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveLeftWolfeNWAlphaEm3Larger(concaveLeftWolfeNWAlphaEm3Abs(x[0]), 1)
-			measure = concaveLeftWolfeNWAlphaEm3Larger(measure, (concaveLeftWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
-			floor = concaveLeftWolfeNWAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveLeftWolfeNWAlphaEm3Larger(concaveLeftWolfeNWAlphaEm3Abs(fx), 1)
-	if !concaveLeftWolfeNWAlphaEm3Finite(measure) {
-		return concaveLeftWolfeNWAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveLeftWolfeNWAlphaEm3RelativeDividedFirst is concaveLeftWolfeNWAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveLeftWolfeNWAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveLeftWolfeNWAlphaEm3Larger(concaveLeftWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -856,24 +856,7 @@ func concaveRightStrongWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float6
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(x[0]), 1)
-			measure = concaveRightStrongWolfeMTAlphaE3Larger(measure, (concaveRightStrongWolfeMTAlphaE3Abs(g[0])+e[0])*w)
-			floor = concaveRightStrongWolfeMTAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(fx), 1)
-	if !concaveRightStrongWolfeMTAlphaE3Finite(measure) {
-		return concaveRightStrongWolfeMTAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightStrongWolfeMTAlphaE3RelativeDividedFirst is concaveRightStrongWolfeMTAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightStrongWolfeMTAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -856,24 +856,7 @@ func concaveRightStrongWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightStrongWolfeMTAlphaEm1Larger(concaveRightStrongWolfeMTAlphaEm1Abs(x[0]), 1)
-			measure = concaveRightStrongWolfeMTAlphaEm1Larger(measure, (concaveRightStrongWolfeMTAlphaEm1Abs(g[0])+e[0])*w)
-			floor = concaveRightStrongWolfeMTAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightStrongWolfeMTAlphaEm1Larger(concaveRightStrongWolfeMTAlphaEm1Abs(fx), 1)
-	if !concaveRightStrongWolfeMTAlphaEm1Finite(measure) {
-		return concaveRightStrongWolfeMTAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightStrongWolfeMTAlphaEm1RelativeDividedFirst is concaveRightStrongWolfeMTAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightStrongWolfeMTAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightStrongWolfeMTAlphaEm1Larger(concaveRightStrongWolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -856,24 +856,7 @@ func concaveRightStrongWolfeNWAlphaE3Stationarity(g, e, x *[1]float64, fx float6
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightStrongWolfeNWAlphaE3Larger(concaveRightStrongWolfeNWAlphaE3Abs(x[0]), 1)
-			measure = concaveRightStrongWolfeNWAlphaE3Larger(measure, (concaveRightStrongWolfeNWAlphaE3Abs(g[0])+e[0])*w)
-			floor = concaveRightStrongWolfeNWAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightStrongWolfeNWAlphaE3Larger(concaveRightStrongWolfeNWAlphaE3Abs(fx), 1)
-	if !concaveRightStrongWolfeNWAlphaE3Finite(measure) {
-		return concaveRightStrongWolfeNWAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightStrongWolfeNWAlphaE3RelativeDividedFirst is concaveRightStrongWolfeNWAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightStrongWolfeNWAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightStrongWolfeNWAlphaE3Larger(concaveRightStrongWolfeNWAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -856,24 +856,7 @@ func concaveRightStrongWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(x[0]), 1)
-			measure = concaveRightStrongWolfeNWAlphaEm3Larger(measure, (concaveRightStrongWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
-			floor = concaveRightStrongWolfeNWAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(fx), 1)
-	if !concaveRightStrongWolfeNWAlphaEm3Finite(measure) {
-		return concaveRightStrongWolfeNWAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightStrongWolfeNWAlphaEm3RelativeDividedFirst is concaveRightStrongWolfeNWAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightStrongWolfeNWAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveRightWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightWolfeMTAlphaE1Larger(concaveRightWolfeMTAlphaE1Abs(x[0]), 1)
-			measure = concaveRightWolfeMTAlphaE1Larger(measure, (concaveRightWolfeMTAlphaE1Abs(g[0])+e[0])*w)
-			floor = concaveRightWolfeMTAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightWolfeMTAlphaE1Larger(concaveRightWolfeMTAlphaE1Abs(fx), 1)
-	if !concaveRightWolfeMTAlphaE1Finite(measure) {
-		return concaveRightWolfeMTAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightWolfeMTAlphaE1RelativeDividedFirst is concaveRightWolfeMTAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightWolfeMTAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightWolfeMTAlphaE1Larger(concaveRightWolfeMTAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

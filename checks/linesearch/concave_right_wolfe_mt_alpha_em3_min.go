@@ -855,24 +855,7 @@ func concaveRightWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightWolfeMTAlphaEm3Larger(concaveRightWolfeMTAlphaEm3Abs(x[0]), 1)
-			measure = concaveRightWolfeMTAlphaEm3Larger(measure, (concaveRightWolfeMTAlphaEm3Abs(g[0])+e[0])*w)
-			floor = concaveRightWolfeMTAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightWolfeMTAlphaEm3Larger(concaveRightWolfeMTAlphaEm3Abs(fx), 1)
-	if !concaveRightWolfeMTAlphaEm3Finite(measure) {
-		return concaveRightWolfeMTAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightWolfeMTAlphaEm3RelativeDividedFirst is concaveRightWolfeMTAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightWolfeMTAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightWolfeMTAlphaEm3Larger(concaveRightWolfeMTAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveRightWolfeNWAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightWolfeNWAlphaE1Larger(concaveRightWolfeNWAlphaE1Abs(x[0]), 1)
-			measure = concaveRightWolfeNWAlphaE1Larger(measure, (concaveRightWolfeNWAlphaE1Abs(g[0])+e[0])*w)
-			floor = concaveRightWolfeNWAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightWolfeNWAlphaE1Larger(concaveRightWolfeNWAlphaE1Abs(fx), 1)
-	if !concaveRightWolfeNWAlphaE1Finite(measure) {
-		return concaveRightWolfeNWAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightWolfeNWAlphaE1RelativeDividedFirst is concaveRightWolfeNWAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightWolfeNWAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightWolfeNWAlphaE1Larger(concaveRightWolfeNWAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

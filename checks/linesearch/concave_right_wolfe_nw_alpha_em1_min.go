@@ -855,24 +855,7 @@ func concaveRightWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightWolfeNWAlphaEm1Larger(concaveRightWolfeNWAlphaEm1Abs(x[0]), 1)
-			measure = concaveRightWolfeNWAlphaEm1Larger(measure, (concaveRightWolfeNWAlphaEm1Abs(g[0])+e[0])*w)
-			floor = concaveRightWolfeNWAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightWolfeNWAlphaEm1Larger(concaveRightWolfeNWAlphaEm1Abs(fx), 1)
-	if !concaveRightWolfeNWAlphaEm1Finite(measure) {
-		return concaveRightWolfeNWAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightWolfeNWAlphaEm1RelativeDividedFirst is concaveRightWolfeNWAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightWolfeNWAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightWolfeNWAlphaEm1Larger(concaveRightWolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func concaveRightWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func concaveRightWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(x[0]), 1)
-			measure = concaveRightWolfeNWAlphaEm3Larger(measure, (concaveRightWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
-			floor = concaveRightWolfeNWAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(fx), 1)
-	if !concaveRightWolfeNWAlphaEm3Finite(measure) {
-		return concaveRightWolfeNWAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// concaveRightWolfeNWAlphaEm3RelativeDividedFirst is concaveRightWolfeNWAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func concaveRightWolfeNWAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannStrongWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(x[0]), 1)
-			measure = plassmannStrongWolfeMTAlphaE1Larger(measure, (plassmannStrongWolfeMTAlphaE1Abs(g[0])+e[0])*w)
-			floor = plassmannStrongWolfeMTAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(fx), 1)
-	if !plassmannStrongWolfeMTAlphaE1Finite(measure) {
-		return plassmannStrongWolfeMTAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannStrongWolfeMTAlphaE1RelativeDividedFirst is plassmannStrongWolfeMTAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannStrongWolfeMTAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

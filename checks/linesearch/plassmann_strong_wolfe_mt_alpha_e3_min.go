@@ -855,24 +855,7 @@ func plassmannStrongWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64, 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannStrongWolfeMTAlphaE3Larger(plassmannStrongWolfeMTAlphaE3Abs(x[0]), 1)
-			measure = plassmannStrongWolfeMTAlphaE3Larger(measure, (plassmannStrongWolfeMTAlphaE3Abs(g[0])+e[0])*w)
-			floor = plassmannStrongWolfeMTAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannStrongWolfeMTAlphaE3Larger(plassmannStrongWolfeMTAlphaE3Abs(fx), 1)
-	if !plassmannStrongWolfeMTAlphaE3Finite(measure) {
-		return plassmannStrongWolfeMTAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannStrongWolfeMTAlphaE3RelativeDividedFirst is plassmannStrongWolfeMTAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannStrongWolfeMTAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannStrongWolfeMTAlphaE3Larger(plassmannStrongWolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannStrongWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64,
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannStrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannStrongWolfeMTAlphaEm3Larger(plassmannStrongWolfeMTAlphaEm3Abs(x[0]), 1)
-			measure = plassmannStrongWolfeMTAlphaEm3Larger(measure, (plassmannStrongWolfeMTAlphaEm3Abs(g[0])+e[0])*w)
-			floor = plassmannStrongWolfeMTAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannStrongWolfeMTAlphaEm3Larger(plassmannStrongWolfeMTAlphaEm3Abs(fx), 1)
-	if !plassmannStrongWolfeMTAlphaEm3Finite(measure) {
-		return plassmannStrongWolfeMTAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannStrongWolfeMTAlphaEm3RelativeDividedFirst is plassmannStrongWolfeMTAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannStrongWolfeMTAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannStrongWolfeMTAlphaEm3Larger(plassmannStrongWolfeMTAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannStrongWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64,
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannStrongWolfeNWAlphaEm3Larger(plassmannStrongWolfeNWAlphaEm3Abs(x[0]), 1)
-			measure = plassmannStrongWolfeNWAlphaEm3Larger(measure, (plassmannStrongWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
-			floor = plassmannStrongWolfeNWAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannStrongWolfeNWAlphaEm3Larger(plassmannStrongWolfeNWAlphaEm3Abs(fx), 1)
-	if !plassmannStrongWolfeNWAlphaEm3Finite(measure) {
-		return plassmannStrongWolfeNWAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannStrongWolfeNWAlphaEm3RelativeDividedFirst is plassmannStrongWolfeNWAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannStrongWolfeNWAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannStrongWolfeNWAlphaEm3Larger(plassmannStrongWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

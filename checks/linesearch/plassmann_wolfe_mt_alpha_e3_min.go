@@ -855,24 +855,7 @@ func plassmannWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *pla
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(x[0]), 1)
-			measure = plassmannWolfeMTAlphaE3Larger(measure, (plassmannWolfeMTAlphaE3Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeMTAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(fx), 1)
-	if !plassmannWolfeMTAlphaE3Finite(measure) {
-		return plassmannWolfeMTAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeMTAlphaE3RelativeDividedFirst is plassmannWolfeMTAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeMTAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *pl
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(x[0]), 1)
-			measure = plassmannWolfeMTAlphaEm1Larger(measure, (plassmannWolfeMTAlphaEm1Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeMTAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(fx), 1)
-	if !plassmannWolfeMTAlphaEm1Finite(measure) {
-		return plassmannWolfeMTAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeMTAlphaEm1RelativeDividedFirst is plassmannWolfeMTAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeMTAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *pl
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(x[0]), 1)
-			measure = plassmannWolfeMTAlphaEm3Larger(measure, (plassmannWolfeMTAlphaEm3Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeMTAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(fx), 1)
-	if !plassmannWolfeMTAlphaEm3Finite(measure) {
-		return plassmannWolfeMTAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeMTAlphaEm3RelativeDividedFirst is plassmannWolfeMTAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeMTAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

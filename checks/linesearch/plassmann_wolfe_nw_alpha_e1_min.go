@@ -855,24 +855,7 @@ func plassmannWolfeNWAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *pla
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeNWAlphaE1Larger(plassmannWolfeNWAlphaE1Abs(x[0]), 1)
-			measure = plassmannWolfeNWAlphaE1Larger(measure, (plassmannWolfeNWAlphaE1Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeNWAlphaE1Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeNWAlphaE1Larger(plassmannWolfeNWAlphaE1Abs(fx), 1)
-	if !plassmannWolfeNWAlphaE1Finite(measure) {
-		return plassmannWolfeNWAlphaE1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeNWAlphaE1RelativeDividedFirst is plassmannWolfeNWAlphaE1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeNWAlphaE1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeNWAlphaE1Larger(plassmannWolfeNWAlphaE1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannWolfeNWAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *pla
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(x[0]), 1)
-			measure = plassmannWolfeNWAlphaE3Larger(measure, (plassmannWolfeNWAlphaE3Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeNWAlphaE3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(fx), 1)
-	if !plassmannWolfeNWAlphaE3Finite(measure) {
-		return plassmannWolfeNWAlphaE3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeNWAlphaE3RelativeDividedFirst is plassmannWolfeNWAlphaE3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeNWAlphaE3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

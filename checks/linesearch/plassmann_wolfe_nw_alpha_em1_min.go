@@ -855,24 +855,7 @@ func plassmannWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *pl
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(x[0]), 1)
-			measure = plassmannWolfeNWAlphaEm1Larger(measure, (plassmannWolfeNWAlphaEm1Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeNWAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(fx), 1)
-	if !plassmannWolfeNWAlphaEm1Finite(measure) {
-		return plassmannWolfeNWAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeNWAlphaEm1RelativeDividedFirst is plassmannWolfeNWAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeNWAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func plassmannWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *pl
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func plassmannWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(x[0]), 1)
-			measure = plassmannWolfeNWAlphaEm3Larger(measure, (plassmannWolfeNWAlphaEm3Abs(g[0])+e[0])*w)
-			floor = plassmannWolfeNWAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(fx), 1)
-	if !plassmannWolfeNWAlphaEm3Finite(measure) {
-		return plassmannWolfeNWAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// plassmannWolfeNWAlphaEm3RelativeDividedFirst is plassmannWolfeNWAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func plassmannWolfeNWAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func yok1WolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *yok1Wol
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok1WolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := yok1WolfeNWAlphaEm1Larger(yok1WolfeNWAlphaEm1Abs(x[0]), 1)
-			measure = yok1WolfeNWAlphaEm1Larger(measure, (yok1WolfeNWAlphaEm1Abs(g[0])+e[0])*w)
-			floor = yok1WolfeNWAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := yok1WolfeNWAlphaEm1Larger(yok1WolfeNWAlphaEm1Abs(fx), 1)
-	if !yok1WolfeNWAlphaEm1Finite(measure) {
-		return yok1WolfeNWAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// yok1WolfeNWAlphaEm1RelativeDividedFirst is yok1WolfeNWAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func yok1WolfeNWAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := yok1WolfeNWAlphaEm1Larger(yok1WolfeNWAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

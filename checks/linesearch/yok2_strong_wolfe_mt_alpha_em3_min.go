@@ -855,24 +855,7 @@ func yok2StrongWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *y
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok2StrongWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := yok2StrongWolfeMTAlphaEm3Larger(yok2StrongWolfeMTAlphaEm3Abs(x[0]), 1)
-			measure = yok2StrongWolfeMTAlphaEm3Larger(measure, (yok2StrongWolfeMTAlphaEm3Abs(g[0])+e[0])*w)
-			floor = yok2StrongWolfeMTAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := yok2StrongWolfeMTAlphaEm3Larger(yok2StrongWolfeMTAlphaEm3Abs(fx), 1)
-	if !yok2StrongWolfeMTAlphaEm3Finite(measure) {
-		return yok2StrongWolfeMTAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// yok2StrongWolfeMTAlphaEm3RelativeDividedFirst is yok2StrongWolfeMTAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func yok2StrongWolfeMTAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := yok2StrongWolfeMTAlphaEm3Larger(yok2StrongWolfeMTAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

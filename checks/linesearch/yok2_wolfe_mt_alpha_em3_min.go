@@ -855,24 +855,7 @@ func yok2WolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *yok2Wol
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok2WolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(x[0]), 1)
-			measure = yok2WolfeMTAlphaEm3Larger(measure, (yok2WolfeMTAlphaEm3Abs(g[0])+e[0])*w)
-			floor = yok2WolfeMTAlphaEm3Larger(floor, e[0]*w)
-		}
-	}
 	scale := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(fx), 1)
-	if !yok2WolfeMTAlphaEm3Finite(measure) {
-		return yok2WolfeMTAlphaEm3RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// yok2WolfeMTAlphaEm3RelativeDividedFirst is yok2WolfeMTAlphaEm3GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func yok2WolfeMTAlphaEm3RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func yok3StrongWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *y
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok3StrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := yok3StrongWolfeMTAlphaEm1Larger(yok3StrongWolfeMTAlphaEm1Abs(x[0]), 1)
-			measure = yok3StrongWolfeMTAlphaEm1Larger(measure, (yok3StrongWolfeMTAlphaEm1Abs(g[0])+e[0])*w)
-			floor = yok3StrongWolfeMTAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := yok3StrongWolfeMTAlphaEm1Larger(yok3StrongWolfeMTAlphaEm1Abs(fx), 1)
-	if !yok3StrongWolfeMTAlphaEm1Finite(measure) {
-		return yok3StrongWolfeMTAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// yok3StrongWolfeMTAlphaEm1RelativeDividedFirst is yok3StrongWolfeMTAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func yok3StrongWolfeMTAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := yok3StrongWolfeMTAlphaEm1Larger(yok3StrongWolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -855,24 +855,7 @@ func yok3WolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *yok3Wol
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func yok3WolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := yok3WolfeMTAlphaEm1Larger(yok3WolfeMTAlphaEm1Abs(x[0]), 1)
-			measure = yok3WolfeMTAlphaEm1Larger(measure, (yok3WolfeMTAlphaEm1Abs(g[0])+e[0])*w)
-			floor = yok3WolfeMTAlphaEm1Larger(floor, e[0]*w)
-		}
-	}
 	scale := yok3WolfeMTAlphaEm1Larger(yok3WolfeMTAlphaEm1Abs(fx), 1)
-	if !yok3WolfeMTAlphaEm1Finite(measure) {
-		return yok3WolfeMTAlphaEm1RelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// yok3WolfeMTAlphaEm1RelativeDividedFirst is yok3WolfeMTAlphaEm1GradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func yok3WolfeMTAlphaEm1RelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := yok3WolfeMTAlphaEm1Larger(yok3WolfeMTAlphaEm1Abs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -922,29 +922,7 @@ func bealeBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeBFGS
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[0]), 1)
-			measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = bealeBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[1]), 1)
-			measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = bealeBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(fx), 1)
-	if !bealeBFGSAnalyticFinite(measure) {
-		return bealeBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// bealeBFGSAnalyticRelativeDividedFirst is bealeBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func bealeBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

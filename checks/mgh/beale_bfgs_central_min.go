@@ -1128,29 +1128,7 @@ func bealeBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeBFGSC
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[0]), 1)
-			measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[0])+e[0])*w)
-			floor = bealeBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[1]), 1)
-			measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[1])+e[1])*w)
-			floor = bealeBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := bealeBFGSCentralLarger(bealeBFGSCentralAbs(fx), 1)
-	if !bealeBFGSCentralFinite(measure) {
-		return bealeBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// bealeBFGSCentralRelativeDividedFirst is bealeBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func bealeBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

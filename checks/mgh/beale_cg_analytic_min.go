@@ -984,29 +984,7 @@ func bealeCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeCGAnal
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[0]), 1)
-			measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[0])+e[0])*w)
-			floor = bealeCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[1]), 1)
-			measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[1])+e[1])*w)
-			floor = bealeCGAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := bealeCGAnalyticLarger(bealeCGAnalyticAbs(fx), 1)
-	if !bealeCGAnalyticFinite(measure) {
-		return bealeCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// bealeCGAnalyticRelativeDividedFirst is bealeCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func bealeCGAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

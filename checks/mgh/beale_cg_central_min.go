@@ -1190,29 +1190,7 @@ func bealeCGCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeCGCentr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := bealeCGCentralLarger(bealeCGCentralAbs(x[0]), 1)
-			measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[0])+e[0])*w)
-			floor = bealeCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := bealeCGCentralLarger(bealeCGCentralAbs(x[1]), 1)
-			measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[1])+e[1])*w)
-			floor = bealeCGCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := bealeCGCentralLarger(bealeCGCentralAbs(fx), 1)
-	if !bealeCGCentralFinite(measure) {
-		return bealeCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// bealeCGCentralRelativeDividedFirst is bealeCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func bealeCGCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := bealeCGCentralLarger(bealeCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -925,29 +925,7 @@ func bealeLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeLBF
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[0]), 1)
-			measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = bealeLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[1]), 1)
-			measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = bealeLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(fx), 1)
-	if !bealeLBFGSAnalyticFinite(measure) {
-		return bealeLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// bealeLBFGSAnalyticRelativeDividedFirst is bealeLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func bealeLBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1131,29 +1131,7 @@ func bealeLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeLBFG
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[0]), 1)
-			measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = bealeLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[1]), 1)
-			measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = bealeLBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(fx), 1)
-	if !bealeLBFGSCentralFinite(measure) {
-		return bealeLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// bealeLBFGSCentralRelativeDividedFirst is bealeLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func bealeLBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

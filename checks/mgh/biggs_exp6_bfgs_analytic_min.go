@@ -981,51 +981,7 @@ func biggsEXP6BFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *biggs
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 4; i += 4 {
-			{
-				w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[i]), 1)
-				measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[i])+e[i])*w)
-				floor = biggsEXP6BFGSAnalyticLarger(floor, e[i]*w)
-			}
-			{
-				w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[i+1]), 1)
-				measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[i+1])+e[i+1])*w)
-				floor = biggsEXP6BFGSAnalyticLarger(floor, e[i+1]*w)
-			}
-			{
-				w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[i+2]), 1)
-				measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[i+2])+e[i+2])*w)
-				floor = biggsEXP6BFGSAnalyticLarger(floor, e[i+2]*w)
-			}
-			{
-				w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[i+3]), 1)
-				measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[i+3])+e[i+3])*w)
-				floor = biggsEXP6BFGSAnalyticLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[4]), 1)
-			measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[4])+e[4])*w)
-			floor = biggsEXP6BFGSAnalyticLarger(floor, e[4]*w)
-		}
-		{
-			w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[5]), 1)
-			measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[5])+e[5])*w)
-			floor = biggsEXP6BFGSAnalyticLarger(floor, e[5]*w)
-		}
-	}
 	scale := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(fx), 1)
-	if !biggsEXP6BFGSAnalyticFinite(measure) {
-		return biggsEXP6BFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// biggsEXP6BFGSAnalyticRelativeDividedFirst is biggsEXP6BFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func biggsEXP6BFGSAnalyticRelativeDividedFirst(g, e, x *[6]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

@@ -993,51 +993,7 @@ func biggsEXP6LBFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *bigg
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 4; i += 4 {
-			{
-				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i]), 1)
-				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i])+e[i])*w)
-				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i]*w)
-			}
-			{
-				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i+1]), 1)
-				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i+1])+e[i+1])*w)
-				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i+1]*w)
-			}
-			{
-				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i+2]), 1)
-				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i+2])+e[i+2])*w)
-				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i+2]*w)
-			}
-			{
-				w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i+3]), 1)
-				measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i+3])+e[i+3])*w)
-				floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[4]), 1)
-			measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[4])+e[4])*w)
-			floor = biggsEXP6LBFGSAnalyticLarger(floor, e[4]*w)
-		}
-		{
-			w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[5]), 1)
-			measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[5])+e[5])*w)
-			floor = biggsEXP6LBFGSAnalyticLarger(floor, e[5]*w)
-		}
-	}
 	scale := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(fx), 1)
-	if !biggsEXP6LBFGSAnalyticFinite(measure) {
-		return biggsEXP6LBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// biggsEXP6LBFGSAnalyticRelativeDividedFirst is biggsEXP6LBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func biggsEXP6LBFGSAnalyticRelativeDividedFirst(g, e, x *[6]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

@@ -952,34 +952,7 @@ func box3DBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DBFGS
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(x[0]), 1)
-			measure = box3DBFGSAnalyticLarger(measure, (box3DBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = box3DBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(x[1]), 1)
-			measure = box3DBFGSAnalyticLarger(measure, (box3DBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = box3DBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(x[2]), 1)
-			measure = box3DBFGSAnalyticLarger(measure, (box3DBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = box3DBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(fx), 1)
-	if !box3DBFGSAnalyticFinite(measure) {
-		return box3DBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// box3DBFGSAnalyticRelativeDividedFirst is box3DBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func box3DBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

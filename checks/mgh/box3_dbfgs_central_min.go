@@ -1181,34 +1181,7 @@ func box3DBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DBFGSC
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[0]), 1)
-			measure = box3DBFGSCentralLarger(measure, (box3DBFGSCentralAbs(g[0])+e[0])*w)
-			floor = box3DBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[1]), 1)
-			measure = box3DBFGSCentralLarger(measure, (box3DBFGSCentralAbs(g[1])+e[1])*w)
-			floor = box3DBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[2]), 1)
-			measure = box3DBFGSCentralLarger(measure, (box3DBFGSCentralAbs(g[2])+e[2])*w)
-			floor = box3DBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := box3DBFGSCentralLarger(box3DBFGSCentralAbs(fx), 1)
-	if !box3DBFGSCentralFinite(measure) {
-		return box3DBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// box3DBFGSCentralRelativeDividedFirst is box3DBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func box3DBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

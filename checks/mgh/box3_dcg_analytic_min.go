@@ -1007,34 +1007,7 @@ func box3DCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DCGAnal
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := box3DCGAnalyticLarger(box3DCGAnalyticAbs(x[0]), 1)
-			measure = box3DCGAnalyticLarger(measure, (box3DCGAnalyticAbs(g[0])+e[0])*w)
-			floor = box3DCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := box3DCGAnalyticLarger(box3DCGAnalyticAbs(x[1]), 1)
-			measure = box3DCGAnalyticLarger(measure, (box3DCGAnalyticAbs(g[1])+e[1])*w)
-			floor = box3DCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := box3DCGAnalyticLarger(box3DCGAnalyticAbs(x[2]), 1)
-			measure = box3DCGAnalyticLarger(measure, (box3DCGAnalyticAbs(g[2])+e[2])*w)
-			floor = box3DCGAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := box3DCGAnalyticLarger(box3DCGAnalyticAbs(fx), 1)
-	if !box3DCGAnalyticFinite(measure) {
-		return box3DCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// box3DCGAnalyticRelativeDividedFirst is box3DCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func box3DCGAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := box3DCGAnalyticLarger(box3DCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

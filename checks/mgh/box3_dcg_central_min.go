@@ -1236,34 +1236,7 @@ func box3DCGCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DCGCentr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := box3DCGCentralLarger(box3DCGCentralAbs(x[0]), 1)
-			measure = box3DCGCentralLarger(measure, (box3DCGCentralAbs(g[0])+e[0])*w)
-			floor = box3DCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := box3DCGCentralLarger(box3DCGCentralAbs(x[1]), 1)
-			measure = box3DCGCentralLarger(measure, (box3DCGCentralAbs(g[1])+e[1])*w)
-			floor = box3DCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := box3DCGCentralLarger(box3DCGCentralAbs(x[2]), 1)
-			measure = box3DCGCentralLarger(measure, (box3DCGCentralAbs(g[2])+e[2])*w)
-			floor = box3DCGCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := box3DCGCentralLarger(box3DCGCentralAbs(fx), 1)
-	if !box3DCGCentralFinite(measure) {
-		return box3DCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// box3DCGCentralRelativeDividedFirst is box3DCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func box3DCGCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := box3DCGCentralLarger(box3DCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -937,34 +937,7 @@ func box3DLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DLBF
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[0]), 1)
-			measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = box3DLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[1]), 1)
-			measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = box3DLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[2]), 1)
-			measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = box3DLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(fx), 1)
-	if !box3DLBFGSAnalyticFinite(measure) {
-		return box3DLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// box3DLBFGSAnalyticRelativeDividedFirst is box3DLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func box3DLBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1166,34 +1166,7 @@ func box3DLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DLBFG
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[0]), 1)
-			measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = box3DLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[1]), 1)
-			measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = box3DLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[2]), 1)
-			measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = box3DLBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(fx), 1)
-	if !box3DLBFGSCentralFinite(measure) {
-		return box3DLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// box3DLBFGSCentralRelativeDividedFirst is box3DLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func box3DLBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -922,29 +922,7 @@ func brownBadlyScaledBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[0]), 1)
-			measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[1]), 1)
-			measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(fx), 1)
-	if !brownBadlyScaledBFGSAnalyticFinite(measure) {
-		return brownBadlyScaledBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownBadlyScaledBFGSAnalyticRelativeDividedFirst is brownBadlyScaledBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownBadlyScaledBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1128,29 +1128,7 @@ func brownBadlyScaledBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[0]), 1)
-			measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[0])+e[0])*w)
-			floor = brownBadlyScaledBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[1]), 1)
-			measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[1])+e[1])*w)
-			floor = brownBadlyScaledBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(fx), 1)
-	if !brownBadlyScaledBFGSCentralFinite(measure) {
-		return brownBadlyScaledBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownBadlyScaledBFGSCentralRelativeDividedFirst is brownBadlyScaledBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownBadlyScaledBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

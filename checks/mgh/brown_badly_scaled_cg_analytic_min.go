@@ -984,29 +984,7 @@ func brownBadlyScaledCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[0]), 1)
-			measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[0])+e[0])*w)
-			floor = brownBadlyScaledCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[1]), 1)
-			measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[1])+e[1])*w)
-			floor = brownBadlyScaledCGAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(fx), 1)
-	if !brownBadlyScaledCGAnalyticFinite(measure) {
-		return brownBadlyScaledCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownBadlyScaledCGAnalyticRelativeDividedFirst is brownBadlyScaledCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownBadlyScaledCGAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

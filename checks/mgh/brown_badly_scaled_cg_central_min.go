@@ -1190,29 +1190,7 @@ func brownBadlyScaledCGCentralStationarity(g, e, x *[2]float64, fx float64, b *b
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(x[0]), 1)
-			measure = brownBadlyScaledCGCentralLarger(measure, (brownBadlyScaledCGCentralAbs(g[0])+e[0])*w)
-			floor = brownBadlyScaledCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(x[1]), 1)
-			measure = brownBadlyScaledCGCentralLarger(measure, (brownBadlyScaledCGCentralAbs(g[1])+e[1])*w)
-			floor = brownBadlyScaledCGCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(fx), 1)
-	if !brownBadlyScaledCGCentralFinite(measure) {
-		return brownBadlyScaledCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownBadlyScaledCGCentralRelativeDividedFirst is brownBadlyScaledCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownBadlyScaledCGCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1131,29 +1131,7 @@ func brownBadlyScaledLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[0]), 1)
-			measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = brownBadlyScaledLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[1]), 1)
-			measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = brownBadlyScaledLBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(fx), 1)
-	if !brownBadlyScaledLBFGSCentralFinite(measure) {
-		return brownBadlyScaledLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownBadlyScaledLBFGSCentralRelativeDividedFirst is brownBadlyScaledLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownBadlyScaledLBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -954,39 +954,7 @@ func brownDennisBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *bro
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[0]), 1)
-			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = brownDennisBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[1]), 1)
-			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = brownDennisBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[2]), 1)
-			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = brownDennisBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[3]), 1)
-			measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = brownDennisBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(fx), 1)
-	if !brownDennisBFGSAnalyticFinite(measure) {
-		return brownDennisBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownDennisBFGSAnalyticRelativeDividedFirst is brownDennisBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownDennisBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1206,39 +1206,7 @@ func brownDennisBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *brow
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[0]), 1)
-			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[0])+e[0])*w)
-			floor = brownDennisBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[1]), 1)
-			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[1])+e[1])*w)
-			floor = brownDennisBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[2]), 1)
-			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[2])+e[2])*w)
-			floor = brownDennisBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[3]), 1)
-			measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[3])+e[3])*w)
-			floor = brownDennisBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(fx), 1)
-	if !brownDennisBFGSCentralFinite(measure) {
-		return brownDennisBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownDennisBFGSCentralRelativeDividedFirst is brownDennisBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownDennisBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1030,39 +1030,7 @@ func brownDennisCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *brown
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[0]), 1)
-			measure = brownDennisCGAnalyticLarger(measure, (brownDennisCGAnalyticAbs(g[0])+e[0])*w)
-			floor = brownDennisCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[1]), 1)
-			measure = brownDennisCGAnalyticLarger(measure, (brownDennisCGAnalyticAbs(g[1])+e[1])*w)
-			floor = brownDennisCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[2]), 1)
-			measure = brownDennisCGAnalyticLarger(measure, (brownDennisCGAnalyticAbs(g[2])+e[2])*w)
-			floor = brownDennisCGAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[3]), 1)
-			measure = brownDennisCGAnalyticLarger(measure, (brownDennisCGAnalyticAbs(g[3])+e[3])*w)
-			floor = brownDennisCGAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(fx), 1)
-	if !brownDennisCGAnalyticFinite(measure) {
-		return brownDennisCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownDennisCGAnalyticRelativeDividedFirst is brownDennisCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownDennisCGAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1282,39 +1282,7 @@ func brownDennisCGCentralStationarity(g, e, x *[4]float64, fx float64, b *brownD
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[0]), 1)
-			measure = brownDennisCGCentralLarger(measure, (brownDennisCGCentralAbs(g[0])+e[0])*w)
-			floor = brownDennisCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[1]), 1)
-			measure = brownDennisCGCentralLarger(measure, (brownDennisCGCentralAbs(g[1])+e[1])*w)
-			floor = brownDennisCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[2]), 1)
-			measure = brownDennisCGCentralLarger(measure, (brownDennisCGCentralAbs(g[2])+e[2])*w)
-			floor = brownDennisCGCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[3]), 1)
-			measure = brownDennisCGCentralLarger(measure, (brownDennisCGCentralAbs(g[3])+e[3])*w)
-			floor = brownDennisCGCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := brownDennisCGCentralLarger(brownDennisCGCentralAbs(fx), 1)
-	if !brownDennisCGCentralFinite(measure) {
-		return brownDennisCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownDennisCGCentralRelativeDividedFirst is brownDennisCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownDennisCGCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -949,39 +949,7 @@ func brownDennisLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *br
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[0]), 1)
-			measure = brownDennisLBFGSAnalyticLarger(measure, (brownDennisLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = brownDennisLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[1]), 1)
-			measure = brownDennisLBFGSAnalyticLarger(measure, (brownDennisLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = brownDennisLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[2]), 1)
-			measure = brownDennisLBFGSAnalyticLarger(measure, (brownDennisLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = brownDennisLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[3]), 1)
-			measure = brownDennisLBFGSAnalyticLarger(measure, (brownDennisLBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = brownDennisLBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(fx), 1)
-	if !brownDennisLBFGSAnalyticFinite(measure) {
-		return brownDennisLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownDennisLBFGSAnalyticRelativeDividedFirst is brownDennisLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownDennisLBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1201,39 +1201,7 @@ func brownDennisLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *bro
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[0]), 1)
-			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = brownDennisLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[1]), 1)
-			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = brownDennisLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[2]), 1)
-			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = brownDennisLBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[3]), 1)
-			measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[3])+e[3])*w)
-			floor = brownDennisLBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(fx), 1)
-	if !brownDennisLBFGSCentralFinite(measure) {
-		return brownDennisLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// brownDennisLBFGSCentralRelativeDividedFirst is brownDennisLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func brownDennisLBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -952,34 +952,7 @@ func gaussianBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gaussi
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[0]), 1)
-			measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = gaussianBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[1]), 1)
-			measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = gaussianBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[2]), 1)
-			measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = gaussianBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(fx), 1)
-	if !gaussianBFGSAnalyticFinite(measure) {
-		return gaussianBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gaussianBFGSAnalyticRelativeDividedFirst is gaussianBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gaussianBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

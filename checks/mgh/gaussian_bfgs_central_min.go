@@ -1181,34 +1181,7 @@ func gaussianBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussia
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[0]), 1)
-			measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[0])+e[0])*w)
-			floor = gaussianBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[1]), 1)
-			measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[1])+e[1])*w)
-			floor = gaussianBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[2]), 1)
-			measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[2])+e[2])*w)
-			floor = gaussianBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(fx), 1)
-	if !gaussianBFGSCentralFinite(measure) {
-		return gaussianBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gaussianBFGSCentralRelativeDividedFirst is gaussianBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gaussianBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

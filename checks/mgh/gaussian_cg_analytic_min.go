@@ -1007,34 +1007,7 @@ func gaussianCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gaussian
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(x[0]), 1)
-			measure = gaussianCGAnalyticLarger(measure, (gaussianCGAnalyticAbs(g[0])+e[0])*w)
-			floor = gaussianCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(x[1]), 1)
-			measure = gaussianCGAnalyticLarger(measure, (gaussianCGAnalyticAbs(g[1])+e[1])*w)
-			floor = gaussianCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(x[2]), 1)
-			measure = gaussianCGAnalyticLarger(measure, (gaussianCGAnalyticAbs(g[2])+e[2])*w)
-			floor = gaussianCGAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(fx), 1)
-	if !gaussianCGAnalyticFinite(measure) {
-		return gaussianCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gaussianCGAnalyticRelativeDividedFirst is gaussianCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gaussianCGAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1236,34 +1236,7 @@ func gaussianCGCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussianC
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[0]), 1)
-			measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[0])+e[0])*w)
-			floor = gaussianCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[1]), 1)
-			measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[1])+e[1])*w)
-			floor = gaussianCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[2]), 1)
-			measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[2])+e[2])*w)
-			floor = gaussianCGCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := gaussianCGCentralLarger(gaussianCGCentralAbs(fx), 1)
-	if !gaussianCGCentralFinite(measure) {
-		return gaussianCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gaussianCGCentralRelativeDividedFirst is gaussianCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gaussianCGCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

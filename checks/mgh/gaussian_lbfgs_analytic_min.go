@@ -937,34 +937,7 @@ func gaussianLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gauss
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[0]), 1)
-			measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = gaussianLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[1]), 1)
-			measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = gaussianLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[2]), 1)
-			measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = gaussianLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(fx), 1)
-	if !gaussianLBFGSAnalyticFinite(measure) {
-		return gaussianLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gaussianLBFGSAnalyticRelativeDividedFirst is gaussianLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gaussianLBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1166,34 +1166,7 @@ func gaussianLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussi
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[0]), 1)
-			measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = gaussianLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[1]), 1)
-			measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = gaussianLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[2]), 1)
-			measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = gaussianLBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(fx), 1)
-	if !gaussianLBFGSCentralFinite(measure) {
-		return gaussianLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gaussianLBFGSCentralRelativeDividedFirst is gaussianLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gaussianLBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

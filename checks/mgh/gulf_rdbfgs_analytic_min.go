@@ -952,34 +952,7 @@ func gulfRDBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDBF
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[0]), 1)
-			measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = gulfRDBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[1]), 1)
-			measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = gulfRDBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[2]), 1)
-			measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = gulfRDBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(fx), 1)
-	if !gulfRDBFGSAnalyticFinite(measure) {
-		return gulfRDBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gulfRDBFGSAnalyticRelativeDividedFirst is gulfRDBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gulfRDBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

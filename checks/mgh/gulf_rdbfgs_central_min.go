@@ -1181,34 +1181,7 @@ func gulfRDBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDBFG
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[0]), 1)
-			measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[0])+e[0])*w)
-			floor = gulfRDBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[1]), 1)
-			measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[1])+e[1])*w)
-			floor = gulfRDBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[2]), 1)
-			measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[2])+e[2])*w)
-			floor = gulfRDBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(fx), 1)
-	if !gulfRDBFGSCentralFinite(measure) {
-		return gulfRDBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gulfRDBFGSCentralRelativeDividedFirst is gulfRDBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gulfRDBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

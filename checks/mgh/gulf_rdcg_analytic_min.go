@@ -1007,34 +1007,7 @@ func gulfRDCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDCGAn
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[0]), 1)
-			measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[0])+e[0])*w)
-			floor = gulfRDCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[1]), 1)
-			measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[1])+e[1])*w)
-			floor = gulfRDCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[2]), 1)
-			measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[2])+e[2])*w)
-			floor = gulfRDCGAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(fx), 1)
-	if !gulfRDCGAnalyticFinite(measure) {
-		return gulfRDCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gulfRDCGAnalyticRelativeDividedFirst is gulfRDCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gulfRDCGAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

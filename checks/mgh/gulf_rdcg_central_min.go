@@ -1236,34 +1236,7 @@ func gulfRDCGCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDCGCen
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[0]), 1)
-			measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[0])+e[0])*w)
-			floor = gulfRDCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[1]), 1)
-			measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[1])+e[1])*w)
-			floor = gulfRDCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[2]), 1)
-			measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[2])+e[2])*w)
-			floor = gulfRDCGCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := gulfRDCGCentralLarger(gulfRDCGCentralAbs(fx), 1)
-	if !gulfRDCGCentralFinite(measure) {
-		return gulfRDCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gulfRDCGCentralRelativeDividedFirst is gulfRDCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gulfRDCGCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -937,34 +937,7 @@ func gulfRDLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDL
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[0]), 1)
-			measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = gulfRDLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[1]), 1)
-			measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = gulfRDLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[2]), 1)
-			measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = gulfRDLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(fx), 1)
-	if !gulfRDLBFGSAnalyticFinite(measure) {
-		return gulfRDLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gulfRDLBFGSAnalyticRelativeDividedFirst is gulfRDLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gulfRDLBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

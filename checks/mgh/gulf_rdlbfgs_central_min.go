@@ -1166,34 +1166,7 @@ func gulfRDLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDLB
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[0]), 1)
-			measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = gulfRDLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[1]), 1)
-			measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = gulfRDLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[2]), 1)
-			measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = gulfRDLBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(fx), 1)
-	if !gulfRDLBFGSCentralFinite(measure) {
-		return gulfRDLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// gulfRDLBFGSCentralRelativeDividedFirst is gulfRDLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func gulfRDLBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -952,34 +952,7 @@ func helicalValleyBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *h
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[0]), 1)
-			measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = helicalValleyBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[1]), 1)
-			measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = helicalValleyBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[2]), 1)
-			measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = helicalValleyBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(fx), 1)
-	if !helicalValleyBFGSAnalyticFinite(measure) {
-		return helicalValleyBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// helicalValleyBFGSAnalyticRelativeDividedFirst is helicalValleyBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func helicalValleyBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

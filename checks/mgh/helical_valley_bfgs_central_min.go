@@ -1181,34 +1181,7 @@ func helicalValleyBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *he
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[0]), 1)
-			measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[0])+e[0])*w)
-			floor = helicalValleyBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[1]), 1)
-			measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[1])+e[1])*w)
-			floor = helicalValleyBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[2]), 1)
-			measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[2])+e[2])*w)
-			floor = helicalValleyBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(fx), 1)
-	if !helicalValleyBFGSCentralFinite(measure) {
-		return helicalValleyBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// helicalValleyBFGSCentralRelativeDividedFirst is helicalValleyBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func helicalValleyBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

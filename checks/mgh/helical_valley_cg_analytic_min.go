@@ -1007,34 +1007,7 @@ func helicalValleyCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *hel
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[0]), 1)
-			measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[0])+e[0])*w)
-			floor = helicalValleyCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[1]), 1)
-			measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[1])+e[1])*w)
-			floor = helicalValleyCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[2]), 1)
-			measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[2])+e[2])*w)
-			floor = helicalValleyCGAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(fx), 1)
-	if !helicalValleyCGAnalyticFinite(measure) {
-		return helicalValleyCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// helicalValleyCGAnalyticRelativeDividedFirst is helicalValleyCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func helicalValleyCGAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1236,34 +1236,7 @@ func helicalValleyCGCentralStationarity(g, e, x *[3]float64, fx float64, b *heli
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(x[0]), 1)
-			measure = helicalValleyCGCentralLarger(measure, (helicalValleyCGCentralAbs(g[0])+e[0])*w)
-			floor = helicalValleyCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(x[1]), 1)
-			measure = helicalValleyCGCentralLarger(measure, (helicalValleyCGCentralAbs(g[1])+e[1])*w)
-			floor = helicalValleyCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(x[2]), 1)
-			measure = helicalValleyCGCentralLarger(measure, (helicalValleyCGCentralAbs(g[2])+e[2])*w)
-			floor = helicalValleyCGCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(fx), 1)
-	if !helicalValleyCGCentralFinite(measure) {
-		return helicalValleyCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// helicalValleyCGCentralRelativeDividedFirst is helicalValleyCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func helicalValleyCGCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -937,34 +937,7 @@ func helicalValleyLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[0]), 1)
-			measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = helicalValleyLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[1]), 1)
-			measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = helicalValleyLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[2]), 1)
-			measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = helicalValleyLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-	}
 	scale := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(fx), 1)
-	if !helicalValleyLBFGSAnalyticFinite(measure) {
-		return helicalValleyLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// helicalValleyLBFGSAnalyticRelativeDividedFirst is helicalValleyLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func helicalValleyLBFGSAnalyticRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1166,34 +1166,7 @@ func helicalValleyLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *h
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func helicalValleyLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[0]), 1)
-			measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = helicalValleyLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[1]), 1)
-			measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = helicalValleyLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[2]), 1)
-			measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = helicalValleyLBFGSCentralLarger(floor, e[2]*w)
-		}
-	}
 	scale := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(fx), 1)
-	if !helicalValleyLBFGSCentralFinite(measure) {
-		return helicalValleyLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// helicalValleyLBFGSCentralRelativeDividedFirst is helicalValleyLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func helicalValleyLBFGSCentralRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -993,51 +993,7 @@ func penaltyI10LBFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *pe
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 8; i += 4 {
-			{
-				w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i]), 1)
-				measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i])+e[i])*w)
-				floor = penaltyI10LBFGSAnalyticLarger(floor, e[i]*w)
-			}
-			{
-				w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i+1]), 1)
-				measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i+1])+e[i+1])*w)
-				floor = penaltyI10LBFGSAnalyticLarger(floor, e[i+1]*w)
-			}
-			{
-				w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i+2]), 1)
-				measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i+2])+e[i+2])*w)
-				floor = penaltyI10LBFGSAnalyticLarger(floor, e[i+2]*w)
-			}
-			{
-				w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i+3]), 1)
-				measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i+3])+e[i+3])*w)
-				floor = penaltyI10LBFGSAnalyticLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[8]), 1)
-			measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[8])+e[8])*w)
-			floor = penaltyI10LBFGSAnalyticLarger(floor, e[8]*w)
-		}
-		{
-			w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[9]), 1)
-			measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[9])+e[9])*w)
-			floor = penaltyI10LBFGSAnalyticLarger(floor, e[9]*w)
-		}
-	}
 	scale := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(fx), 1)
-	if !penaltyI10LBFGSAnalyticFinite(measure) {
-		return penaltyI10LBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyI10LBFGSAnalyticRelativeDividedFirst is penaltyI10LBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyI10LBFGSAnalyticRelativeDividedFirst(g, e, x *[10]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{

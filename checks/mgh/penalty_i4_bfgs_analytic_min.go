@@ -954,39 +954,7 @@ func penaltyI4BFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penal
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[0]), 1)
-			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = penaltyI4BFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[1]), 1)
-			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = penaltyI4BFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[2]), 1)
-			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = penaltyI4BFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[3]), 1)
-			measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = penaltyI4BFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(fx), 1)
-	if !penaltyI4BFGSAnalyticFinite(measure) {
-		return penaltyI4BFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyI4BFGSAnalyticRelativeDividedFirst is penaltyI4BFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyI4BFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1206,39 +1206,7 @@ func penaltyI4BFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *penalt
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[0]), 1)
-			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[0])+e[0])*w)
-			floor = penaltyI4BFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[1]), 1)
-			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[1])+e[1])*w)
-			floor = penaltyI4BFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[2]), 1)
-			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[2])+e[2])*w)
-			floor = penaltyI4BFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[3]), 1)
-			measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[3])+e[3])*w)
-			floor = penaltyI4BFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(fx), 1)
-	if !penaltyI4BFGSCentralFinite(measure) {
-		return penaltyI4BFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyI4BFGSCentralRelativeDividedFirst is penaltyI4BFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyI4BFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

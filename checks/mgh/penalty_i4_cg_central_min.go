@@ -1282,39 +1282,7 @@ func penaltyI4CGCentralStationarity(g, e, x *[4]float64, fx float64, b *penaltyI
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyI4CGCentralLarger(penaltyI4CGCentralAbs(x[0]), 1)
-			measure = penaltyI4CGCentralLarger(measure, (penaltyI4CGCentralAbs(g[0])+e[0])*w)
-			floor = penaltyI4CGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyI4CGCentralLarger(penaltyI4CGCentralAbs(x[1]), 1)
-			measure = penaltyI4CGCentralLarger(measure, (penaltyI4CGCentralAbs(g[1])+e[1])*w)
-			floor = penaltyI4CGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyI4CGCentralLarger(penaltyI4CGCentralAbs(x[2]), 1)
-			measure = penaltyI4CGCentralLarger(measure, (penaltyI4CGCentralAbs(g[2])+e[2])*w)
-			floor = penaltyI4CGCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyI4CGCentralLarger(penaltyI4CGCentralAbs(x[3]), 1)
-			measure = penaltyI4CGCentralLarger(measure, (penaltyI4CGCentralAbs(g[3])+e[3])*w)
-			floor = penaltyI4CGCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyI4CGCentralLarger(penaltyI4CGCentralAbs(fx), 1)
-	if !penaltyI4CGCentralFinite(measure) {
-		return penaltyI4CGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyI4CGCentralRelativeDividedFirst is penaltyI4CGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyI4CGCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyI4CGCentralLarger(penaltyI4CGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -949,39 +949,7 @@ func penaltyI4LBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *pena
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[0]), 1)
-			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = penaltyI4LBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[1]), 1)
-			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = penaltyI4LBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[2]), 1)
-			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = penaltyI4LBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[3]), 1)
-			measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = penaltyI4LBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(fx), 1)
-	if !penaltyI4LBFGSAnalyticFinite(measure) {
-		return penaltyI4LBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyI4LBFGSAnalyticRelativeDividedFirst is penaltyI4LBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyI4LBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

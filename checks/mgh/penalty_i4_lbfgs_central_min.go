@@ -1201,39 +1201,7 @@ func penaltyI4LBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *penal
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyI4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[0]), 1)
-			measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[0])+e[0])*w)
-			floor = penaltyI4LBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[1]), 1)
-			measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[1])+e[1])*w)
-			floor = penaltyI4LBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[2]), 1)
-			measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[2])+e[2])*w)
-			floor = penaltyI4LBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[3]), 1)
-			measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[3])+e[3])*w)
-			floor = penaltyI4LBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(fx), 1)
-	if !penaltyI4LBFGSCentralFinite(measure) {
-		return penaltyI4LBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyI4LBFGSCentralRelativeDividedFirst is penaltyI4LBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyI4LBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1100,51 +1100,7 @@ func penaltyII10CGAnalyticStationarity(g, e, x *[10]float64, fx float64, b *pena
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 8; i += 4 {
-			{
-				w := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(x[i]), 1)
-				measure = penaltyII10CGAnalyticLarger(measure, (penaltyII10CGAnalyticAbs(g[i])+e[i])*w)
-				floor = penaltyII10CGAnalyticLarger(floor, e[i]*w)
-			}
-			{
-				w := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(x[i+1]), 1)
-				measure = penaltyII10CGAnalyticLarger(measure, (penaltyII10CGAnalyticAbs(g[i+1])+e[i+1])*w)
-				floor = penaltyII10CGAnalyticLarger(floor, e[i+1]*w)
-			}
-			{
-				w := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(x[i+2]), 1)
-				measure = penaltyII10CGAnalyticLarger(measure, (penaltyII10CGAnalyticAbs(g[i+2])+e[i+2])*w)
-				floor = penaltyII10CGAnalyticLarger(floor, e[i+2]*w)
-			}
-			{
-				w := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(x[i+3]), 1)
-				measure = penaltyII10CGAnalyticLarger(measure, (penaltyII10CGAnalyticAbs(g[i+3])+e[i+3])*w)
-				floor = penaltyII10CGAnalyticLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(x[8]), 1)
-			measure = penaltyII10CGAnalyticLarger(measure, (penaltyII10CGAnalyticAbs(g[8])+e[8])*w)
-			floor = penaltyII10CGAnalyticLarger(floor, e[8]*w)
-		}
-		{
-			w := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(x[9]), 1)
-			measure = penaltyII10CGAnalyticLarger(measure, (penaltyII10CGAnalyticAbs(g[9])+e[9])*w)
-			floor = penaltyII10CGAnalyticLarger(floor, e[9]*w)
-		}
-	}
 	scale := penaltyII10CGAnalyticLarger(penaltyII10CGAnalyticAbs(fx), 1)
-	if !penaltyII10CGAnalyticFinite(measure) {
-		return penaltyII10CGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyII10CGAnalyticRelativeDividedFirst is penaltyII10CGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyII10CGAnalyticRelativeDividedFirst(g, e, x *[10]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{

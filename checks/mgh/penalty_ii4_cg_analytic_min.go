@@ -1030,39 +1030,7 @@ func penaltyII4CGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penalt
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[0]), 1)
-			measure = penaltyII4CGAnalyticLarger(measure, (penaltyII4CGAnalyticAbs(g[0])+e[0])*w)
-			floor = penaltyII4CGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[1]), 1)
-			measure = penaltyII4CGAnalyticLarger(measure, (penaltyII4CGAnalyticAbs(g[1])+e[1])*w)
-			floor = penaltyII4CGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[2]), 1)
-			measure = penaltyII4CGAnalyticLarger(measure, (penaltyII4CGAnalyticAbs(g[2])+e[2])*w)
-			floor = penaltyII4CGAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[3]), 1)
-			measure = penaltyII4CGAnalyticLarger(measure, (penaltyII4CGAnalyticAbs(g[3])+e[3])*w)
-			floor = penaltyII4CGAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(fx), 1)
-	if !penaltyII4CGAnalyticFinite(measure) {
-		return penaltyII4CGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyII4CGAnalyticRelativeDividedFirst is penaltyII4CGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyII4CGAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

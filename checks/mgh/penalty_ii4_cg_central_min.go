@@ -1282,39 +1282,7 @@ func penaltyII4CGCentralStationarity(g, e, x *[4]float64, fx float64, b *penalty
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[0]), 1)
-			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[0])+e[0])*w)
-			floor = penaltyII4CGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[1]), 1)
-			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[1])+e[1])*w)
-			floor = penaltyII4CGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[2]), 1)
-			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[2])+e[2])*w)
-			floor = penaltyII4CGCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[3]), 1)
-			measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[3])+e[3])*w)
-			floor = penaltyII4CGCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(fx), 1)
-	if !penaltyII4CGCentralFinite(measure) {
-		return penaltyII4CGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyII4CGCentralRelativeDividedFirst is penaltyII4CGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyII4CGCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1201,39 +1201,7 @@ func penaltyII4LBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *pena
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[0]), 1)
-			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[0])+e[0])*w)
-			floor = penaltyII4LBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[1]), 1)
-			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[1])+e[1])*w)
-			floor = penaltyII4LBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[2]), 1)
-			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[2])+e[2])*w)
-			floor = penaltyII4LBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[3]), 1)
-			measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[3])+e[3])*w)
-			floor = penaltyII4LBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(fx), 1)
-	if !penaltyII4LBFGSCentralFinite(measure) {
-		return penaltyII4LBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// penaltyII4LBFGSCentralRelativeDividedFirst is penaltyII4LBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func penaltyII4LBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -922,29 +922,7 @@ func powellBadlyScaledBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[0]), 1)
-			measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[1]), 1)
-			measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(fx), 1)
-	if !powellBadlyScaledBFGSAnalyticFinite(measure) {
-		return powellBadlyScaledBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellBadlyScaledBFGSAnalyticRelativeDividedFirst is powellBadlyScaledBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellBadlyScaledBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1128,29 +1128,7 @@ func powellBadlyScaledBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[0]), 1)
-			measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[0])+e[0])*w)
-			floor = powellBadlyScaledBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[1]), 1)
-			measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[1])+e[1])*w)
-			floor = powellBadlyScaledBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(fx), 1)
-	if !powellBadlyScaledBFGSCentralFinite(measure) {
-		return powellBadlyScaledBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellBadlyScaledBFGSCentralRelativeDividedFirst is powellBadlyScaledBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellBadlyScaledBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -984,29 +984,7 @@ func powellBadlyScaledCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[0]), 1)
-			measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[0])+e[0])*w)
-			floor = powellBadlyScaledCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[1]), 1)
-			measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[1])+e[1])*w)
-			floor = powellBadlyScaledCGAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(fx), 1)
-	if !powellBadlyScaledCGAnalyticFinite(measure) {
-		return powellBadlyScaledCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellBadlyScaledCGAnalyticRelativeDividedFirst is powellBadlyScaledCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellBadlyScaledCGAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

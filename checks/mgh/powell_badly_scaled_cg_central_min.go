@@ -1190,29 +1190,7 @@ func powellBadlyScaledCGCentralStationarity(g, e, x *[2]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[0]), 1)
-			measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[0])+e[0])*w)
-			floor = powellBadlyScaledCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[1]), 1)
-			measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[1])+e[1])*w)
-			floor = powellBadlyScaledCGCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(fx), 1)
-	if !powellBadlyScaledCGCentralFinite(measure) {
-		return powellBadlyScaledCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellBadlyScaledCGCentralRelativeDividedFirst is powellBadlyScaledCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellBadlyScaledCGCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -925,29 +925,7 @@ func powellBadlyScaledLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64,
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[0]), 1)
-			measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[1]), 1)
-			measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(fx), 1)
-	if !powellBadlyScaledLBFGSAnalyticFinite(measure) {
-		return powellBadlyScaledLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellBadlyScaledLBFGSAnalyticRelativeDividedFirst is powellBadlyScaledLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellBadlyScaledLBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

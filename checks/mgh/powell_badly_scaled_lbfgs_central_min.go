@@ -1131,29 +1131,7 @@ func powellBadlyScaledLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[0]), 1)
-			measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = powellBadlyScaledLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[1]), 1)
-			measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = powellBadlyScaledLBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(fx), 1)
-	if !powellBadlyScaledLBFGSCentralFinite(measure) {
-		return powellBadlyScaledLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellBadlyScaledLBFGSCentralRelativeDividedFirst is powellBadlyScaledLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellBadlyScaledLBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -954,39 +954,7 @@ func powellSingularBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[0]), 1)
-			measure = powellSingularBFGSAnalyticLarger(measure, (powellSingularBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = powellSingularBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[1]), 1)
-			measure = powellSingularBFGSAnalyticLarger(measure, (powellSingularBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = powellSingularBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[2]), 1)
-			measure = powellSingularBFGSAnalyticLarger(measure, (powellSingularBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = powellSingularBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[3]), 1)
-			measure = powellSingularBFGSAnalyticLarger(measure, (powellSingularBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = powellSingularBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(fx), 1)
-	if !powellSingularBFGSAnalyticFinite(measure) {
-		return powellSingularBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellSingularBFGSAnalyticRelativeDividedFirst is powellSingularBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellSingularBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

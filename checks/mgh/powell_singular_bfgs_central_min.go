@@ -1206,39 +1206,7 @@ func powellSingularBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *p
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[0]), 1)
-			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[0])+e[0])*w)
-			floor = powellSingularBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[1]), 1)
-			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[1])+e[1])*w)
-			floor = powellSingularBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[2]), 1)
-			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[2])+e[2])*w)
-			floor = powellSingularBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[3]), 1)
-			measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[3])+e[3])*w)
-			floor = powellSingularBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(fx), 1)
-	if !powellSingularBFGSCentralFinite(measure) {
-		return powellSingularBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellSingularBFGSCentralRelativeDividedFirst is powellSingularBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellSingularBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

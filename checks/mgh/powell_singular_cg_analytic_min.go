@@ -1030,39 +1030,7 @@ func powellSingularCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *po
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[0]), 1)
-			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[0])+e[0])*w)
-			floor = powellSingularCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[1]), 1)
-			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[1])+e[1])*w)
-			floor = powellSingularCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[2]), 1)
-			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[2])+e[2])*w)
-			floor = powellSingularCGAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[3]), 1)
-			measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[3])+e[3])*w)
-			floor = powellSingularCGAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(fx), 1)
-	if !powellSingularCGAnalyticFinite(measure) {
-		return powellSingularCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellSingularCGAnalyticRelativeDividedFirst is powellSingularCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellSingularCGAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1282,39 +1282,7 @@ func powellSingularCGCentralStationarity(g, e, x *[4]float64, fx float64, b *pow
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[0]), 1)
-			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[0])+e[0])*w)
-			floor = powellSingularCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[1]), 1)
-			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[1])+e[1])*w)
-			floor = powellSingularCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[2]), 1)
-			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[2])+e[2])*w)
-			floor = powellSingularCGCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[3]), 1)
-			measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[3])+e[3])*w)
-			floor = powellSingularCGCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := powellSingularCGCentralLarger(powellSingularCGCentralAbs(fx), 1)
-	if !powellSingularCGCentralFinite(measure) {
-		return powellSingularCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellSingularCGCentralRelativeDividedFirst is powellSingularCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellSingularCGCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

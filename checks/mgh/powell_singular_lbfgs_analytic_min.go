@@ -949,39 +949,7 @@ func powellSingularLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b 
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[0]), 1)
-			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = powellSingularLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[1]), 1)
-			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = powellSingularLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[2]), 1)
-			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = powellSingularLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[3]), 1)
-			measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = powellSingularLBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(fx), 1)
-	if !powellSingularLBFGSAnalyticFinite(measure) {
-		return powellSingularLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellSingularLBFGSAnalyticRelativeDividedFirst is powellSingularLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellSingularLBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

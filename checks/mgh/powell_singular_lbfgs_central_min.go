@@ -1201,39 +1201,7 @@ func powellSingularLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func powellSingularLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[0]), 1)
-			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = powellSingularLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[1]), 1)
-			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = powellSingularLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[2]), 1)
-			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = powellSingularLBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[3]), 1)
-			measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[3])+e[3])*w)
-			floor = powellSingularLBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(fx), 1)
-	if !powellSingularLBFGSCentralFinite(measure) {
-		return powellSingularLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// powellSingularLBFGSCentralRelativeDividedFirst is powellSingularLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func powellSingularLBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

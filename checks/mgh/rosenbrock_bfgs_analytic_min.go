@@ -922,29 +922,7 @@ func rosenbrockBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rose
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[0]), 1)
-			measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = rosenbrockBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[1]), 1)
-			measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = rosenbrockBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(fx), 1)
-	if !rosenbrockBFGSAnalyticFinite(measure) {
-		return rosenbrockBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// rosenbrockBFGSAnalyticRelativeDividedFirst is rosenbrockBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func rosenbrockBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

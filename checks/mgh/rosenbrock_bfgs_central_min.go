@@ -1128,29 +1128,7 @@ func rosenbrockBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *rosen
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[0]), 1)
-			measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[0])+e[0])*w)
-			floor = rosenbrockBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[1]), 1)
-			measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[1])+e[1])*w)
-			floor = rosenbrockBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(fx), 1)
-	if !rosenbrockBFGSCentralFinite(measure) {
-		return rosenbrockBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// rosenbrockBFGSCentralRelativeDividedFirst is rosenbrockBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func rosenbrockBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -984,29 +984,7 @@ func rosenbrockCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rosenb
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[0]), 1)
-			measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[0])+e[0])*w)
-			floor = rosenbrockCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[1]), 1)
-			measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[1])+e[1])*w)
-			floor = rosenbrockCGAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(fx), 1)
-	if !rosenbrockCGAnalyticFinite(measure) {
-		return rosenbrockCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// rosenbrockCGAnalyticRelativeDividedFirst is rosenbrockCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func rosenbrockCGAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

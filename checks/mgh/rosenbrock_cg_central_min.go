@@ -1190,29 +1190,7 @@ func rosenbrockCGCentralStationarity(g, e, x *[2]float64, fx float64, b *rosenbr
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(x[0]), 1)
-			measure = rosenbrockCGCentralLarger(measure, (rosenbrockCGCentralAbs(g[0])+e[0])*w)
-			floor = rosenbrockCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(x[1]), 1)
-			measure = rosenbrockCGCentralLarger(measure, (rosenbrockCGCentralAbs(g[1])+e[1])*w)
-			floor = rosenbrockCGCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(fx), 1)
-	if !rosenbrockCGCentralFinite(measure) {
-		return rosenbrockCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// rosenbrockCGCentralRelativeDividedFirst is rosenbrockCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func rosenbrockCGCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

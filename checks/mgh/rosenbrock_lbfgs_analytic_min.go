@@ -925,29 +925,7 @@ func rosenbrockLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *ros
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[0]), 1)
-			measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = rosenbrockLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[1]), 1)
-			measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = rosenbrockLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-	}
 	scale := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(fx), 1)
-	if !rosenbrockLBFGSAnalyticFinite(measure) {
-		return rosenbrockLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// rosenbrockLBFGSAnalyticRelativeDividedFirst is rosenbrockLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func rosenbrockLBFGSAnalyticRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

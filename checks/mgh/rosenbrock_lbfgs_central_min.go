@@ -1131,29 +1131,7 @@ func rosenbrockLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *rose
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[0]), 1)
-			measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = rosenbrockLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[1]), 1)
-			measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = rosenbrockLBFGSCentralLarger(floor, e[1]*w)
-		}
-	}
 	scale := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(fx), 1)
-	if !rosenbrockLBFGSCentralFinite(measure) {
-		return rosenbrockLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// rosenbrockLBFGSCentralRelativeDividedFirst is rosenbrockLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func rosenbrockLBFGSCentralRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

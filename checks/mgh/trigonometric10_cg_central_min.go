@@ -1279,51 +1279,7 @@ func trigonometric10CGCentralStationarity(g, e, x *[10]float64, fx float64, b *t
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func trigonometric10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 8; i += 4 {
-			{
-				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i]), 1)
-				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i])+e[i])*w)
-				floor = trigonometric10CGCentralLarger(floor, e[i]*w)
-			}
-			{
-				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i+1]), 1)
-				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i+1])+e[i+1])*w)
-				floor = trigonometric10CGCentralLarger(floor, e[i+1]*w)
-			}
-			{
-				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i+2]), 1)
-				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i+2])+e[i+2])*w)
-				floor = trigonometric10CGCentralLarger(floor, e[i+2]*w)
-			}
-			{
-				w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i+3]), 1)
-				measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i+3])+e[i+3])*w)
-				floor = trigonometric10CGCentralLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[8]), 1)
-			measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[8])+e[8])*w)
-			floor = trigonometric10CGCentralLarger(floor, e[8]*w)
-		}
-		{
-			w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[9]), 1)
-			measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[9])+e[9])*w)
-			floor = trigonometric10CGCentralLarger(floor, e[9]*w)
-		}
-	}
 	scale := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(fx), 1)
-	if !trigonometric10CGCentralFinite(measure) {
-		return trigonometric10CGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// trigonometric10CGCentralRelativeDividedFirst is trigonometric10CGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func trigonometric10CGCentralRelativeDividedFirst(g, e, x *[10]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{

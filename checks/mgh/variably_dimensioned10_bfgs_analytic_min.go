@@ -982,51 +982,7 @@ func variablyDimensioned10BFGSAnalyticStationarity(g, e, x *[10]float64, fx floa
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func variablyDimensioned10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 8; i += 4 {
-			{
-				w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i]), 1)
-				measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i])+e[i])*w)
-				floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i]*w)
-			}
-			{
-				w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i+1]), 1)
-				measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i+1])+e[i+1])*w)
-				floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i+1]*w)
-			}
-			{
-				w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i+2]), 1)
-				measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i+2])+e[i+2])*w)
-				floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i+2]*w)
-			}
-			{
-				w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i+3]), 1)
-				measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i+3])+e[i+3])*w)
-				floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[8]), 1)
-			measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[8])+e[8])*w)
-			floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[8]*w)
-		}
-		{
-			w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[9]), 1)
-			measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[9])+e[9])*w)
-			floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[9]*w)
-		}
-	}
 	scale := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(fx), 1)
-	if !variablyDimensioned10BFGSAnalyticFinite(measure) {
-		return variablyDimensioned10BFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// variablyDimensioned10BFGSAnalyticRelativeDividedFirst is variablyDimensioned10BFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func variablyDimensioned10BFGSAnalyticRelativeDividedFirst(g, e, x *[10]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{

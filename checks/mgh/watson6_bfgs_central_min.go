@@ -1160,51 +1160,7 @@ func watson6BFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *watson6B
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 4; i += 4 {
-			{
-				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i]), 1)
-				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i])+e[i])*w)
-				floor = watson6BFGSCentralLarger(floor, e[i]*w)
-			}
-			{
-				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i+1]), 1)
-				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i+1])+e[i+1])*w)
-				floor = watson6BFGSCentralLarger(floor, e[i+1]*w)
-			}
-			{
-				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i+2]), 1)
-				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i+2])+e[i+2])*w)
-				floor = watson6BFGSCentralLarger(floor, e[i+2]*w)
-			}
-			{
-				w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i+3]), 1)
-				measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i+3])+e[i+3])*w)
-				floor = watson6BFGSCentralLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[4]), 1)
-			measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[4])+e[4])*w)
-			floor = watson6BFGSCentralLarger(floor, e[4]*w)
-		}
-		{
-			w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[5]), 1)
-			measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[5])+e[5])*w)
-			floor = watson6BFGSCentralLarger(floor, e[5]*w)
-		}
-	}
 	scale := watson6BFGSCentralLarger(watson6BFGSCentralAbs(fx), 1)
-	if !watson6BFGSCentralFinite(measure) {
-		return watson6BFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// watson6BFGSCentralRelativeDividedFirst is watson6BFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func watson6BFGSCentralRelativeDividedFirst(g, e, x *[6]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

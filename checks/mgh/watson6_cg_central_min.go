@@ -1279,51 +1279,7 @@ func watson6CGCentralStationarity(g, e, x *[6]float64, fx float64, b *watson6CGC
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 4; i += 4 {
-			{
-				w := watson6CGCentralLarger(watson6CGCentralAbs(x[i]), 1)
-				measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[i])+e[i])*w)
-				floor = watson6CGCentralLarger(floor, e[i]*w)
-			}
-			{
-				w := watson6CGCentralLarger(watson6CGCentralAbs(x[i+1]), 1)
-				measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[i+1])+e[i+1])*w)
-				floor = watson6CGCentralLarger(floor, e[i+1]*w)
-			}
-			{
-				w := watson6CGCentralLarger(watson6CGCentralAbs(x[i+2]), 1)
-				measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[i+2])+e[i+2])*w)
-				floor = watson6CGCentralLarger(floor, e[i+2]*w)
-			}
-			{
-				w := watson6CGCentralLarger(watson6CGCentralAbs(x[i+3]), 1)
-				measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[i+3])+e[i+3])*w)
-				floor = watson6CGCentralLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := watson6CGCentralLarger(watson6CGCentralAbs(x[4]), 1)
-			measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[4])+e[4])*w)
-			floor = watson6CGCentralLarger(floor, e[4]*w)
-		}
-		{
-			w := watson6CGCentralLarger(watson6CGCentralAbs(x[5]), 1)
-			measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[5])+e[5])*w)
-			floor = watson6CGCentralLarger(floor, e[5]*w)
-		}
-	}
 	scale := watson6CGCentralLarger(watson6CGCentralAbs(fx), 1)
-	if !watson6CGCentralFinite(measure) {
-		return watson6CGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// watson6CGCentralRelativeDividedFirst is watson6CGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func watson6CGCentralRelativeDividedFirst(g, e, x *[6]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 4; i += 4 {
 			{

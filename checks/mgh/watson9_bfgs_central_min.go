@@ -1147,46 +1147,7 @@ func watson9BFGSCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9B
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 8; i += 4 {
-			{
-				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i]), 1)
-				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i])+e[i])*w)
-				floor = watson9BFGSCentralLarger(floor, e[i]*w)
-			}
-			{
-				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i+1]), 1)
-				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i+1])+e[i+1])*w)
-				floor = watson9BFGSCentralLarger(floor, e[i+1]*w)
-			}
-			{
-				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i+2]), 1)
-				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i+2])+e[i+2])*w)
-				floor = watson9BFGSCentralLarger(floor, e[i+2]*w)
-			}
-			{
-				w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i+3]), 1)
-				measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i+3])+e[i+3])*w)
-				floor = watson9BFGSCentralLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[8]), 1)
-			measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[8])+e[8])*w)
-			floor = watson9BFGSCentralLarger(floor, e[8]*w)
-		}
-	}
 	scale := watson9BFGSCentralLarger(watson9BFGSCentralAbs(fx), 1)
-	if !watson9BFGSCentralFinite(measure) {
-		return watson9BFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// watson9BFGSCentralRelativeDividedFirst is watson9BFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func watson9BFGSCentralRelativeDividedFirst(g, e, x *[9]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{

@@ -1077,46 +1077,7 @@ func watson9CGAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson9CG
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	{
-		for i := 0; i < 8; i += 4 {
-			{
-				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i]), 1)
-				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i])+e[i])*w)
-				floor = watson9CGAnalyticLarger(floor, e[i]*w)
-			}
-			{
-				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i+1]), 1)
-				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i+1])+e[i+1])*w)
-				floor = watson9CGAnalyticLarger(floor, e[i+1]*w)
-			}
-			{
-				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i+2]), 1)
-				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i+2])+e[i+2])*w)
-				floor = watson9CGAnalyticLarger(floor, e[i+2]*w)
-			}
-			{
-				w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i+3]), 1)
-				measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i+3])+e[i+3])*w)
-				floor = watson9CGAnalyticLarger(floor, e[i+3]*w)
-			}
-		}
-		{
-			w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[8]), 1)
-			measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[8])+e[8])*w)
-			floor = watson9CGAnalyticLarger(floor, e[8]*w)
-		}
-	}
 	scale := watson9CGAnalyticLarger(watson9CGAnalyticAbs(fx), 1)
-	if !watson9CGAnalyticFinite(measure) {
-		return watson9CGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// watson9CGAnalyticRelativeDividedFirst is watson9CGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func watson9CGAnalyticRelativeDividedFirst(g, e, x *[9]float64, scale float64) (measure, floor float64) {
 	{
 		for i := 0; i < 8; i += 4 {
 			{

@@ -954,39 +954,7 @@ func woodBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodBFGSAn
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[0]), 1)
-			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = woodBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[1]), 1)
-			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = woodBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[2]), 1)
-			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = woodBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[3]), 1)
-			measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = woodBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(fx), 1)
-	if !woodBFGSAnalyticFinite(measure) {
-		return woodBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// woodBFGSAnalyticRelativeDividedFirst is woodBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func woodBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

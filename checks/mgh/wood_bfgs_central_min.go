@@ -1206,39 +1206,7 @@ func woodBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *woodBFGSCen
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[0]), 1)
-			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[0])+e[0])*w)
-			floor = woodBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[1]), 1)
-			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[1])+e[1])*w)
-			floor = woodBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[2]), 1)
-			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[2])+e[2])*w)
-			floor = woodBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[3]), 1)
-			measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[3])+e[3])*w)
-			floor = woodBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := woodBFGSCentralLarger(woodBFGSCentralAbs(fx), 1)
-	if !woodBFGSCentralFinite(measure) {
-		return woodBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// woodBFGSCentralRelativeDividedFirst is woodBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func woodBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1030,39 +1030,7 @@ func woodCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodCGAnalyt
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[0]), 1)
-			measure = woodCGAnalyticLarger(measure, (woodCGAnalyticAbs(g[0])+e[0])*w)
-			floor = woodCGAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[1]), 1)
-			measure = woodCGAnalyticLarger(measure, (woodCGAnalyticAbs(g[1])+e[1])*w)
-			floor = woodCGAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[2]), 1)
-			measure = woodCGAnalyticLarger(measure, (woodCGAnalyticAbs(g[2])+e[2])*w)
-			floor = woodCGAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[3]), 1)
-			measure = woodCGAnalyticLarger(measure, (woodCGAnalyticAbs(g[3])+e[3])*w)
-			floor = woodCGAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := woodCGAnalyticLarger(woodCGAnalyticAbs(fx), 1)
-	if !woodCGAnalyticFinite(measure) {
-		return woodCGAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// woodCGAnalyticRelativeDividedFirst is woodCGAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func woodCGAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

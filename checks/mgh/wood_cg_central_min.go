@@ -1282,39 +1282,7 @@ func woodCGCentralStationarity(g, e, x *[4]float64, fx float64, b *woodCGCentral
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := woodCGCentralLarger(woodCGCentralAbs(x[0]), 1)
-			measure = woodCGCentralLarger(measure, (woodCGCentralAbs(g[0])+e[0])*w)
-			floor = woodCGCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := woodCGCentralLarger(woodCGCentralAbs(x[1]), 1)
-			measure = woodCGCentralLarger(measure, (woodCGCentralAbs(g[1])+e[1])*w)
-			floor = woodCGCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := woodCGCentralLarger(woodCGCentralAbs(x[2]), 1)
-			measure = woodCGCentralLarger(measure, (woodCGCentralAbs(g[2])+e[2])*w)
-			floor = woodCGCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := woodCGCentralLarger(woodCGCentralAbs(x[3]), 1)
-			measure = woodCGCentralLarger(measure, (woodCGCentralAbs(g[3])+e[3])*w)
-			floor = woodCGCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := woodCGCentralLarger(woodCGCentralAbs(fx), 1)
-	if !woodCGCentralFinite(measure) {
-		return woodCGCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// woodCGCentralRelativeDividedFirst is woodCGCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func woodCGCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := woodCGCentralLarger(woodCGCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -949,39 +949,7 @@ func woodLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodLBFGS
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[0]), 1)
-			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[0])+e[0])*w)
-			floor = woodLBFGSAnalyticLarger(floor, e[0]*w)
-		}
-		{
-			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[1]), 1)
-			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[1])+e[1])*w)
-			floor = woodLBFGSAnalyticLarger(floor, e[1]*w)
-		}
-		{
-			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[2]), 1)
-			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[2])+e[2])*w)
-			floor = woodLBFGSAnalyticLarger(floor, e[2]*w)
-		}
-		{
-			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[3]), 1)
-			measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[3])+e[3])*w)
-			floor = woodLBFGSAnalyticLarger(floor, e[3]*w)
-		}
-	}
 	scale := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(fx), 1)
-	if !woodLBFGSAnalyticFinite(measure) {
-		return woodLBFGSAnalyticRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// woodLBFGSAnalyticRelativeDividedFirst is woodLBFGSAnalyticGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func woodLBFGSAnalyticRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

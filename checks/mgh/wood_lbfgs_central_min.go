@@ -1201,39 +1201,7 @@ func woodLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *woodLBFGSC
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[0]), 1)
-			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[0])+e[0])*w)
-			floor = woodLBFGSCentralLarger(floor, e[0]*w)
-		}
-		{
-			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[1]), 1)
-			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[1])+e[1])*w)
-			floor = woodLBFGSCentralLarger(floor, e[1]*w)
-		}
-		{
-			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[2]), 1)
-			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[2])+e[2])*w)
-			floor = woodLBFGSCentralLarger(floor, e[2]*w)
-		}
-		{
-			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[3]), 1)
-			measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[3])+e[3])*w)
-			floor = woodLBFGSCentralLarger(floor, e[3]*w)
-		}
-	}
 	scale := woodLBFGSCentralLarger(woodLBFGSCentralAbs(fx), 1)
-	if !woodLBFGSCentralFinite(measure) {
-		return woodLBFGSCentralRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// woodLBFGSCentralRelativeDividedFirst is woodLBFGSCentralGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func woodLBFGSCentralRelativeDividedFirst(g, e, x *[4]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -929,24 +929,7 @@ func impliedVolPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func impliedVolGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := impliedVolLarger(impliedVolAbs(x[0]), 1)
-			measure = impliedVolLarger(measure, (impliedVolAbs(g[0])+e[0])*w)
-			floor = impliedVolLarger(floor, e[0]*w)
-		}
-	}
 	scale := impliedVolLarger(impliedVolAbs(fx), 1)
-	if !impliedVolFinite(measure) {
-		return impliedVolRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// impliedVolRelativeDividedFirst is impliedVolGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func impliedVolRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := impliedVolLarger(impliedVolAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -922,29 +922,7 @@ func calibrateStationarity(g, e, x *[2]float64, fx float64, b *calibrateBox) (me
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := calibrateLarger(calibrateAbs(x[0]), 1)
-			measure = calibrateLarger(measure, (calibrateAbs(g[0])+e[0])*w)
-			floor = calibrateLarger(floor, e[0]*w)
-		}
-		{
-			w := calibrateLarger(calibrateAbs(x[1]), 1)
-			measure = calibrateLarger(measure, (calibrateAbs(g[1])+e[1])*w)
-			floor = calibrateLarger(floor, e[1]*w)
-		}
-	}
 	scale := calibrateLarger(calibrateAbs(fx), 1)
-	if !calibrateFinite(measure) {
-		return calibrateRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// calibrateRelativeDividedFirst is calibrateGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func calibrateRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := calibrateLarger(calibrateAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

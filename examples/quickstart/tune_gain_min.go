@@ -1079,24 +1079,7 @@ func tuneGainStationarity(g, e, x *[1]float64, fx float64, b *tuneGainBox) (meas
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := tuneGainLarger(tuneGainAbs(x[0]), 1)
-			measure = tuneGainLarger(measure, (tuneGainAbs(g[0])+e[0])*w)
-			floor = tuneGainLarger(floor, e[0]*w)
-		}
-	}
 	scale := tuneGainLarger(tuneGainAbs(fx), 1)
-	if !tuneGainFinite(measure) {
-		return tuneGainRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// tuneGainRelativeDividedFirst is tuneGainGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func tuneGainRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := tuneGainLarger(tuneGainAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

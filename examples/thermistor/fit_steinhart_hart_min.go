@@ -1208,34 +1208,7 @@ func fitSteinhartHartStationarity(g, e, x *[3]float64, fx float64, b *fitSteinha
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func fitSteinhartHartGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[0]), 1)
-			measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[0])+e[0])*w)
-			floor = fitSteinhartHartLarger(floor, e[0]*w)
-		}
-		{
-			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[1]), 1)
-			measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[1])+e[1])*w)
-			floor = fitSteinhartHartLarger(floor, e[1]*w)
-		}
-		{
-			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[2]), 1)
-			measure = fitSteinhartHartLarger(measure, (fitSteinhartHartAbs(g[2])+e[2])*w)
-			floor = fitSteinhartHartLarger(floor, e[2]*w)
-		}
-	}
 	scale := fitSteinhartHartLarger(fitSteinhartHartAbs(fx), 1)
-	if !fitSteinhartHartFinite(measure) {
-		return fitSteinhartHartRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// fitSteinhartHartRelativeDividedFirst is fitSteinhartHartGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func fitSteinhartHartRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := fitSteinhartHartLarger(fitSteinhartHartAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -959,29 +959,7 @@ func reachPushedAgainst(xi, gi, lower, upper float32) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func reachGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
-	{
-		{
-			w := reachLarger(reachAbs(x[0]), 1)
-			measure = reachLarger(measure, (reachAbs(g[0])+e[0])*w)
-			floor = reachLarger(floor, e[0]*w)
-		}
-		{
-			w := reachLarger(reachAbs(x[1]), 1)
-			measure = reachLarger(measure, (reachAbs(g[1])+e[1])*w)
-			floor = reachLarger(floor, e[1]*w)
-		}
-	}
 	scale := reachLarger(reachAbs(fx), 1)
-	if !reachFinite(measure) {
-		return reachRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// reachRelativeDividedFirst is reachGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func reachRelativeDividedFirst(g, e, x *[2]float32, scale float32) (measure, floor float32) {
 	{
 		{
 			w := reachLarger(reachAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1084,34 +1084,7 @@ func fitCoolingGNStationarity(g, e, x *[3]float64, fx float64, b *fitCoolingGNBo
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func fitCoolingGNGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := fitCoolingGNLarger(fitCoolingGNAbs(x[0]), 1)
-			measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[0])+e[0])*w)
-			floor = fitCoolingGNLarger(floor, e[0]*w)
-		}
-		{
-			w := fitCoolingGNLarger(fitCoolingGNAbs(x[1]), 1)
-			measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[1])+e[1])*w)
-			floor = fitCoolingGNLarger(floor, e[1]*w)
-		}
-		{
-			w := fitCoolingGNLarger(fitCoolingGNAbs(x[2]), 1)
-			measure = fitCoolingGNLarger(measure, (fitCoolingGNAbs(g[2])+e[2])*w)
-			floor = fitCoolingGNLarger(floor, e[2]*w)
-		}
-	}
 	scale := fitCoolingGNLarger(fitCoolingGNAbs(fx), 1)
-	if !fitCoolingGNFinite(measure) {
-		return fitCoolingGNRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// fitCoolingGNRelativeDividedFirst is fitCoolingGNGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func fitCoolingGNRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := fitCoolingGNLarger(fitCoolingGNAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

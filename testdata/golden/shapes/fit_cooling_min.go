@@ -919,34 +919,7 @@ func fitCoolingStationarity(g, e, x *[3]float64, fx float64, b *fitCoolingBox) (
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func fitCoolingGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := fitCoolingLarger(fitCoolingAbs(x[0]), 1)
-			measure = fitCoolingLarger(measure, (fitCoolingAbs(g[0])+e[0])*w)
-			floor = fitCoolingLarger(floor, e[0]*w)
-		}
-		{
-			w := fitCoolingLarger(fitCoolingAbs(x[1]), 1)
-			measure = fitCoolingLarger(measure, (fitCoolingAbs(g[1])+e[1])*w)
-			floor = fitCoolingLarger(floor, e[1]*w)
-		}
-		{
-			w := fitCoolingLarger(fitCoolingAbs(x[2]), 1)
-			measure = fitCoolingLarger(measure, (fitCoolingAbs(g[2])+e[2])*w)
-			floor = fitCoolingLarger(floor, e[2]*w)
-		}
-	}
 	scale := fitCoolingLarger(fitCoolingAbs(fx), 1)
-	if !fitCoolingFinite(measure) {
-		return fitCoolingRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// fitCoolingRelativeDividedFirst is fitCoolingGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func fitCoolingRelativeDividedFirst(g, e, x *[3]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := fitCoolingLarger(fitCoolingAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1222,34 +1222,7 @@ func minBowlInBoxPushedAgainst(xi, gi, lower, upper float32) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minBowlInBoxGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
-	{
-		{
-			w := minBowlInBoxLarger(minBowlInBoxAbs(x[0]), 1)
-			measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[0])+e[0])*w)
-			floor = minBowlInBoxLarger(floor, e[0]*w)
-		}
-		{
-			w := minBowlInBoxLarger(minBowlInBoxAbs(x[1]), 1)
-			measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[1])+e[1])*w)
-			floor = minBowlInBoxLarger(floor, e[1]*w)
-		}
-		{
-			w := minBowlInBoxLarger(minBowlInBoxAbs(x[2]), 1)
-			measure = minBowlInBoxLarger(measure, (minBowlInBoxAbs(g[2])+e[2])*w)
-			floor = minBowlInBoxLarger(floor, e[2]*w)
-		}
-	}
 	scale := minBowlInBoxLarger(minBowlInBoxAbs(fx), 1)
-	if !minBowlInBoxFinite(measure) {
-		return minBowlInBoxRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minBowlInBoxRelativeDividedFirst is minBowlInBoxGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minBowlInBoxRelativeDividedFirst(g, e, x *[3]float32, scale float32) (measure, floor float32) {
 	{
 		{
 			w := minBowlInBoxLarger(minBowlInBoxAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

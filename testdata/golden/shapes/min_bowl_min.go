@@ -1179,34 +1179,7 @@ func minBowlStationarity(g, e, x *[3]float32, fx float32, b *minBowlBox) (measur
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
-	{
-		{
-			w := minBowlLarger(minBowlAbs(x[0]), 1)
-			measure = minBowlLarger(measure, (minBowlAbs(g[0])+e[0])*w)
-			floor = minBowlLarger(floor, e[0]*w)
-		}
-		{
-			w := minBowlLarger(minBowlAbs(x[1]), 1)
-			measure = minBowlLarger(measure, (minBowlAbs(g[1])+e[1])*w)
-			floor = minBowlLarger(floor, e[1]*w)
-		}
-		{
-			w := minBowlLarger(minBowlAbs(x[2]), 1)
-			measure = minBowlLarger(measure, (minBowlAbs(g[2])+e[2])*w)
-			floor = minBowlLarger(floor, e[2]*w)
-		}
-	}
 	scale := minBowlLarger(minBowlAbs(fx), 1)
-	if !minBowlFinite(measure) {
-		return minBowlRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minBowlRelativeDividedFirst is minBowlGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minBowlRelativeDividedFirst(g, e, x *[3]float32, scale float32) (measure, floor float32) {
 	{
 		{
 			w := minBowlLarger(minBowlAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

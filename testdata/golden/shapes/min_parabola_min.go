@@ -1079,24 +1079,7 @@ func minParabolaStationarity(g, e, x *[1]float64, fx float64, b *minParabolaBox)
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := minParabolaLarger(minParabolaAbs(x[0]), 1)
-			measure = minParabolaLarger(measure, (minParabolaAbs(g[0])+e[0])*w)
-			floor = minParabolaLarger(floor, e[0]*w)
-		}
-	}
 	scale := minParabolaLarger(minParabolaAbs(fx), 1)
-	if !minParabolaFinite(measure) {
-		return minParabolaRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minParabolaRelativeDividedFirst is minParabolaGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minParabolaRelativeDividedFirst(g, e, x *[1]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := minParabolaLarger(minParabolaAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -1068,29 +1068,7 @@ func minPlateDecreaseStationarity(g, e, x *[2]float32, fx float32, b *minPlateDe
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
-	{
-		{
-			w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[0]), 1)
-			measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[0])+e[0])*w)
-			floor = minPlateDecreaseLarger(floor, e[0]*w)
-		}
-		{
-			w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[1]), 1)
-			measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[1])+e[1])*w)
-			floor = minPlateDecreaseLarger(floor, e[1]*w)
-		}
-	}
 	scale := minPlateDecreaseLarger(minPlateDecreaseAbs(fx), 1)
-	if !minPlateDecreaseFinite(measure) {
-		return minPlateDecreaseRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minPlateDecreaseRelativeDividedFirst is minPlateDecreaseGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minPlateDecreaseRelativeDividedFirst(g, e, x *[2]float32, scale float32) (measure, floor float32) {
 	{
 		{
 			w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -873,29 +873,7 @@ func minValleyCostStationarity(g, e, x *[2]float64, fx float64, b *minValleyCost
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minValleyCostGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := minValleyCostLarger(minValleyCostAbs(x[0]), 1)
-			measure = minValleyCostLarger(measure, (minValleyCostAbs(g[0])+e[0])*w)
-			floor = minValleyCostLarger(floor, e[0]*w)
-		}
-		{
-			w := minValleyCostLarger(minValleyCostAbs(x[1]), 1)
-			measure = minValleyCostLarger(measure, (minValleyCostAbs(g[1])+e[1])*w)
-			floor = minValleyCostLarger(floor, e[1]*w)
-		}
-	}
 	scale := minValleyCostLarger(minValleyCostAbs(fx), 1)
-	if !minValleyCostFinite(measure) {
-		return minValleyCostRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minValleyCostRelativeDividedFirst is minValleyCostGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minValleyCostRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := minValleyCostLarger(minValleyCostAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

@@ -925,29 +925,7 @@ func minValleyStationarity(g, e, x *[2]float64, fx float64, b *minValleyBox) (me
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := minValleyLarger(minValleyAbs(x[0]), 1)
-			measure = minValleyLarger(measure, (minValleyAbs(g[0])+e[0])*w)
-			floor = minValleyLarger(floor, e[0]*w)
-		}
-		{
-			w := minValleyLarger(minValleyAbs(x[1]), 1)
-			measure = minValleyLarger(measure, (minValleyAbs(g[1])+e[1])*w)
-			floor = minValleyLarger(floor, e[1]*w)
-		}
-	}
 	scale := minValleyLarger(minValleyAbs(fx), 1)
-	if !minValleyFinite(measure) {
-		return minValleyRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minValleyRelativeDividedFirst is minValleyGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minValleyRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := minValleyLarger(minValleyAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

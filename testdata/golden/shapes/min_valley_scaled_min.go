@@ -1003,29 +1003,7 @@ func minValleyScaledPushedAgainst(xi, gi, lower, upper float64) bool {
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minValleyScaledGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	{
-		{
-			w := minValleyScaledLarger(minValleyScaledAbs(x[0]), 1)
-			measure = minValleyScaledLarger(measure, (minValleyScaledAbs(g[0])+e[0])*w)
-			floor = minValleyScaledLarger(floor, e[0]*w)
-		}
-		{
-			w := minValleyScaledLarger(minValleyScaledAbs(x[1]), 1)
-			measure = minValleyScaledLarger(measure, (minValleyScaledAbs(g[1])+e[1])*w)
-			floor = minValleyScaledLarger(floor, e[1]*w)
-		}
-	}
 	scale := minValleyScaledLarger(minValleyScaledAbs(fx), 1)
-	if !minValleyScaledFinite(measure) {
-		return minValleyScaledRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minValleyScaledRelativeDividedFirst is minValleyScaledGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minValleyScaledRelativeDividedFirst(g, e, x *[2]float64, scale float64) (measure, floor float64) {
 	{
 		{
 			w := minValleyScaledLarger(minValleyScaledAbs(x[0]), 1) / scale // D&S §7.2: relative gradient

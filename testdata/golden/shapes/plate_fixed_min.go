@@ -861,29 +861,7 @@ func minPlateStationarity(g, e, x *[2]float32, fx float32, b *minPlateBox) (meas
 //   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
 //     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
 func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
-	{
-		{
-			w := minPlateLarger(minPlateAbs(x[0]), 1)
-			measure = minPlateLarger(measure, (minPlateAbs(g[0])+e[0])*w)
-			floor = minPlateLarger(floor, e[0]*w)
-		}
-		{
-			w := minPlateLarger(minPlateAbs(x[1]), 1)
-			measure = minPlateLarger(measure, (minPlateAbs(g[1])+e[1])*w)
-			floor = minPlateLarger(floor, e[1]*w)
-		}
-	}
 	scale := minPlateLarger(minPlateAbs(fx), 1)
-	if !minPlateFinite(measure) {
-		return minPlateRelativeDividedFirst(g, e, x, scale) // a product overflowed, or g is not finite
-	}
-	return measure / scale, floor / scale // D&S §7.2: relative gradient; two divisions, not one per unknown
-}
-
-// minPlateRelativeDividedFirst is minPlateGradientMeasure with each max(|x_i|, 1) divided
-// by scale before the product, which then cannot overflow where the
-// measure itself does not.
-func minPlateRelativeDividedFirst(g, e, x *[2]float32, scale float32) (measure, floor float32) {
 	{
 		{
 			w := minPlateLarger(minPlateAbs(x[0]), 1) / scale // D&S §7.2: relative gradient
