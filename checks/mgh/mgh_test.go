@@ -173,7 +173,7 @@ type exclusion struct {
 
 var exclusions = map[string]exclusion{
 	"PowellBadlyScaledCGAnalytic": {
-		"PR+ CG zigzags down the curved valley and stalls at f ≈ 1.2e-8 with a gradient far above its limit: reported as stalled, not converged. At the stall cg has no learnt diagonal to switch to: the search just before it restarted cg (d was not a descent direction), which drops b; kept, b would not rescue it either (b₂ ≈ 1.4e10 where ∂²f/∂x₂² ≈ 0.03 from 2JᵀJ, by hand; measured with a patched copy). With central differences the preconditioner rescues the run",
+		"PR+ CG zigzags down the curved valley and stalls at f ≈ 1.2e-8 with a gradient far above its limit: reported as stalled, not converged. At the stall cg has no learnt diagonal to switch to: the search just before it restarted cg (d was not a descent direction), which drops b; kept, b would not rescue it either (b₂ ≈ 1.4e10 where ∂²f/∂x₂² ≈ 0.03 from 2JᵀJ, by hand; measured with a patched copy). With central differences the preconditioner rescues the run here; which of the two runs it rescues depends on the platform's last bits (see ../emulated)",
 		"MGH (3) is badly scaled by design; ∇²f(x*) has λ from 2.4e-8 to 1.7e10 (computed here); functions.go: \"very flat near the minimum\"",
 	},
 	"Watson9CGCentral": {

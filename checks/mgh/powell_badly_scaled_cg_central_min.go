@@ -589,9 +589,10 @@ type powellBadlyScaledCGCentralResidualModel struct{}
 // test reads |zᵀg₋₁| ≥ ν zᵀg (preconditioned nonlinear CG, §5.2). b is
 // learnt from every pair by the diagonal of the BFGS update (see update),
 // so it holds the scale of each coordinate when the stall comes. Powell
-// badly scaled (MGH 3) with central differences, where ∇²f spans
-// 2.4e-8 to 1.7e10, stalled in its curved valley without it and converges
-// with it. It stays off until then: on the rest of the MGH set
+// badly scaled (MGH 3), where ∇²f spans 2.4e-8 to 1.7e10, stalled in its
+// curved valley without it on every platform; with it, it converges there
+// on some and not on others, as the last bits of b fall (checks/emulated).
+// It stays off until then: on the rest of the MGH set
 // preconditioning from the start cost up to 50 times the iterations
 // (variably dimensioned, whose Hessian I + rank one suits plain CG) and
 // stalled on Watson 6.
