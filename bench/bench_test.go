@@ -182,6 +182,30 @@ func TestTable(t *testing.T) {
 	fmt.Print(b.String())
 }
 
+// onlyBenchmark is the -test.bench pattern that selects the one
+// sub-benchmark name of BenchmarkSolve: go test splits a pattern at its
+// slashes and matches each level on its own, unanchored, so every level
+// is anchored here (otherwise "bfgs" also runs lbfgs, "analytic" also
+// analytic32, and "ExtRosen10" also ExtRosen100).
+func onlyBenchmark(name string) string {
+	levels := []string{"^BenchmarkSolve$"}
+	for _, level := range strings.Split(name, "/") {
+		levels = append(levels, "^"+regexp.QuoteMeta(level)+"$")
+	}
+	return strings.Join(levels, "/")
+}
+
+// benchmarksRun lists the benchmarks a go test -bench output reports.
+func benchmarksRun(out []byte) []string {
+	var ran []string
+	for _, line := range strings.Split(string(out), "\n") {
+		if name, _, ok := strings.Cut(line, "\t"); ok && strings.HasPrefix(name, "BenchmarkSolve/") {
+			ran = append(ran, strings.TrimSpace(name))
+		}
+	}
+	return ran
+}
+
 // instructionTable counts, with valgrind's callgrind, the instructions of
 // one solve (thalweg) and of its floor for each key: each benchmark runs
 // at -benchtime 1x and at k+1 times (k from a first estimate at 11x, see
@@ -198,11 +222,15 @@ func instructionTable(t *testing.T, dir string, keys []string) string {
 	count := func(bench string, times int) float64 {
 		file := filepath.Join(dir, "callgrind.out")
 		cmd := exec.Command("valgrind", "--tool=callgrind", "--callgrind-out-file="+file, bin,
-			"-test.run=^$", "-test.bench=^BenchmarkSolve$/^"+regexp.QuoteMeta(bench)+"$", "-test.benchtime="+strconv.Itoa(times)+"x")
+			"-test.run=^$", "-test.bench="+onlyBenchmark(bench), "-test.benchtime="+strconv.Itoa(times)+"x")
 		// Go's preemption signals trip callgrind's signal bookkeeping
 		cmd.Env = append(os.Environ(), "GODEBUG=asyncpreemptoff=1", "GOMAXPROCS=1")
-		if out, err := cmd.CombinedOutput(); err != nil {
+		out, err := cmd.CombinedOutput()
+		if err != nil {
 			t.Fatalf("callgrind on %s: %v\n%s", bench, err, out)
+		}
+		if ran := benchmarksRun(out); len(ran) != 1 {
+			t.Fatalf("callgrind on %s: the pattern ran %d benchmarks, want 1: %v", bench, len(ran), ran)
 		}
 		data, err := os.ReadFile(file)
 		if err != nil {
@@ -453,6 +481,36 @@ func specSource() string {
 	return b.String()
 }
 
+// bfgsArithmeticSource renders, per dimension of the problems, the
+// floor's share of a BFGS iteration: the inverse-Hessian product and the
+// rank-two update, 3N² multiply-adds (N&W 2006, eq. 6.17), on arrays of
+// that dimension so that the compiler knows every bound (no bounds checks,
+// as in the generated code) and the floor is as low as plain Go makes it.
+func bfgsArithmeticSource() string {
+	var b strings.Builder
+	seen := map[int]bool{}
+	for _, p := range problems() {
+		if seen[p.n] {
+			continue
+		}
+		seen[p.n] = true
+		fmt.Fprintf(&b, `func bfgsArithmetic%[1]d(h *[%[1]d][%[1]d]float64, y *[%[1]d]float64) {
+	for i := range h {
+		var s float64
+		for j := range y {
+			s += h[i][j] * y[j]
+		}
+		for j := range y {
+			h[i][j] += 1e-300*s*y[j] + 1e-300*y[i]*y[j]
+		}
+	}
+}
+
+`, p.n)
+	}
+	return b.String()
+}
+
 // benchSource renders BenchmarkSolve: per problem, source and direction,
 // the generated minimizer (thalweg), gonum's method of that direction
 // with the same objective and gradient (gonum; for central differences
@@ -474,23 +532,9 @@ import (
 
 var sink float64
 
-// bfgsArithmetic is the floor's share of a BFGS iteration: the
-// inverse-Hessian product and the rank-two update, 3N² multiply-adds
-// (N&W 2006, eq. 6.17).
-func bfgsArithmetic(h []float64, y []float64, n int) {
-	for i := 0; i < n; i++ {
-		var s float64
-		for j := 0; j < n; j++ {
-			s += h[i*n+j] * y[j]
-		}
-		for j := 0; j < n; j++ {
-			h[i*n+j] += 1e-300*s*y[j] + 1e-300*y[i]*y[j]
-		}
-	}
-}
-
-func BenchmarkSolve(b *testing.B) {
 `)
+	b.WriteString(bfgsArithmeticSource())
+	b.WriteString("func BenchmarkSolve(b *testing.B) {\n")
 	for _, p := range problems() {
 		for _, src := range sources(p) {
 			name, grad := objective(p, src)
@@ -522,11 +566,11 @@ func BenchmarkSolve(b *testing.B) {
 				if p.n == 1 {
 					fmt.Fprintf(&b, "\t\t\tx := x0\n\t\t\tfor b.Loop() {\n\t\t\t\tfor k := 0; k < nf; k++ {\n\t\t\t\t\tsink += float64(%s(x))\n\t\t\t\t}\n\t\t\t\tfor k := 0; k < ng; k++ {\n\t\t\t\t\tsink += float64(%s(x))\n\t\t\t\t}\n\t\t\t}\n", name, grad)
 				} else {
-					fmt.Fprintf(&b, "\t\t\tx := x0\n\t\t\tvar g [%d]%s\n\t\t\th := make([]float64, %d)\n\t\t\ty := make([]float64, %d)\n\t\t\tfor b.Loop() {\n\t\t\t\tfor k := 0; k < nf; k++ {\n\t\t\t\t\tsink += float64(%s(&x))\n\t\t\t\t}\n\t\t\t\tfor k := 0; k < ng; k++ {\n\t\t\t\t\t%s(&x, &g)\n\t\t\t\t}\n", p.n, elem, p.n*p.n, p.n, name, grad)
+					fmt.Fprintf(&b, "\t\t\tx := x0\n\t\t\tvar g [%d]%s\n\t\t\tvar h [%d][%d]float64\n\t\t\tvar y [%d]float64\n\t\t\tfor b.Loop() {\n\t\t\t\tfor k := 0; k < nf; k++ {\n\t\t\t\t\tsink += float64(%s(&x))\n\t\t\t\t}\n\t\t\t\tfor k := 0; k < ng; k++ {\n\t\t\t\t\t%s(&x, &g)\n\t\t\t\t}\n", p.n, elem, p.n, p.n, p.n, name, grad)
 					if d == "bfgs" {
-						fmt.Fprintf(&b, "\t\t\t\tfor k := 0; k < iterations; k++ {\n\t\t\t\t\tbfgsArithmetic(h, y, %d)\n\t\t\t\t}\n", p.n)
+						fmt.Fprintf(&b, "\t\t\t\tfor k := 0; k < iterations; k++ {\n\t\t\t\t\tbfgsArithmetic%d(&h, &y)\n\t\t\t\t}\n", p.n)
 					}
-					b.WriteString("\t\t\t}\n\t\t\tsink += float64(g[0]) + h[0] + y[0]\n")
+					b.WriteString("\t\t\t}\n\t\t\tsink += float64(g[0]) + h[0][0] + y[0]\n")
 				}
 				b.WriteString("\t\t\t_ = iterations\n\t\t})\n")
 				// gonum, float64 only
@@ -635,4 +679,31 @@ func handSteepest%[2]s(x [%[1]d]float64) ([%[1]d]float64, int) {
 `, p.n, p.name, grad)
 	}
 	return b.String()
+}
+
+// The instruction counts once ran every benchmark whose levels contained
+// the key's (lbfgs for bfgs, analytic32 for analytic): each level of the
+// pattern must match its own level exactly.
+func TestOnlyBenchmarkAnchorsEveryLevel(t *testing.T) {
+	pattern := strings.Split(onlyBenchmark("ExtRosen10/bfgs/analytic/thalweg"), "/")
+	matches := func(name string) bool {
+		levels := append([]string{"BenchmarkSolve"}, strings.Split(name, "/")...)
+		if len(levels) != len(pattern) {
+			return false
+		}
+		for i, level := range levels {
+			if !regexp.MustCompile(pattern[i]).MatchString(level) {
+				return false
+			}
+		}
+		return true
+	}
+	if !matches("ExtRosen10/bfgs/analytic/thalweg") {
+		t.Errorf("%v does not select its own benchmark", pattern)
+	}
+	for _, other := range []string{"ExtRosen10/lbfgs/analytic/thalweg", "ExtRosen10/bfgs/analytic32/thalweg", "ExtRosen100/bfgs/analytic/thalweg", "ExtRosen10/bfgs/analytic/floor"} {
+		if matches(other) {
+			t.Errorf("%v also selects %s", pattern, other)
+		}
+	}
 }
