@@ -37,12 +37,12 @@ func (s *bfgsDirection) compute(g, d *vec) {
 }
 
 func (s *bfgsDirection) update(step, change *vec) {
-	sy := dot(step, change)
-	if !curvatureSafeWith(sy, step, change) {
+	sy, ss, yy := pairProducts(step, change)
+	if !curvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := sy / dot(change, change) // N&W eq. 6.20
+		gamma := sy / yy // N&W eq. 6.20
 		for i := range s.h {
 			s.h[i][i] = gamma
 		}

@@ -101,17 +101,24 @@ func (s *direction) firstTrial(t, slope, now elem) elem {
 // 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
 // practice: below it, sᵀy is within rounding of zero.
 func curvatureSafe(s, y *vec) bool {
-	return curvatureSafeWith(dot(s, y), s, y)
+	return curvatureSafeFrom(pairProducts(s, y))
 }
 
-// curvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func curvatureSafeWith(sy elem, s, y *vec) bool {
-	return curvatureSafeFrom(sy, dot(s, s), dot(y, y))
+// pairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func pairProducts(s, y *vec) (sy, ss, yy elem) {
+	for i := range s {
+		sy += s[i] * y[i]
+		ss += s[i] * s[i]
+		yy += y[i] * y[i]
+	}
+	return sy, ss, yy
 }
 
 // curvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func curvatureSafeFrom(sy, ss, yy elem) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > unitRoundoff
 }

@@ -66,7 +66,7 @@ func (s *lbfgsDirection) compute(g, d *vec) {
 }
 
 func (s *lbfgsDirection) update(step, change *vec) {
-	sy, ss, yy := dot(step, change), dot(step, step), dot(change, change)
+	sy, ss, yy := pairProducts(step, change)
 	if !curvatureSafeFrom(sy, ss, yy) {
 		return
 	}

@@ -155,8 +155,8 @@ func secantUpdate(s, y *vec, diffs *differences) {
 			}
 		}
 	}
-	sy := dot(s, y)
-	if !curvatureSafeWith(sy, s, y) {
+	sy, sDotS, yDotY := pairProducts(s, y)
+	if !curvatureSafeFrom(sy, sDotS, yDotY) {
 		return
 	}
 	var w vec

@@ -40,6 +40,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, 
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous linePoint               // low before the last trial replaced it: the expansion's other point
 	var trend riseTrend                  // of the trials failing sufficient decrease
 	limit := stepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -63,7 +64,6 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, 
 		trialPoint(xt, x, t, d, &diffs.bounds)
 		current := linePoint{step: t, value: value(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !finite(current.value) || current.value > fx+stepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -86,8 +86,8 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first elem, 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return lineResult{step: t, value: current.value, calls: calls, gradient: true, end: searchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place expandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -730,7 +730,7 @@ func poly1CGFreeLarger(a, b float64) float64 {
 }
 
 // poly1CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func poly1CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly1CGFreeUnitRoundoff
 }
@@ -1074,6 +1074,7 @@ func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float
 	var high poly1CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous poly1CGFreeLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend poly1CGFreeRiseTrend                  // of the trials failing sufficient decrease
 	limit := poly1CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1097,7 +1098,6 @@ func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float
 		poly1CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := poly1CGFreeLinePoint{step: t, value: poly1CGFreeValue(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !poly1CGFreeFinite(current.value) || current.value > fx+poly1CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1120,8 +1120,8 @@ func poly1CGFreeLineSearch(recv *Poly, x *[1]float64, fx float64, g, d *[1]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return poly1CGFreeLineResult{step: t, value: current.value, calls: calls, gradient: true, end: poly1CGFreeSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place poly1CGFreeExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -746,7 +746,7 @@ func poly2CGFreeLarger(a, b float64) float64 {
 }
 
 // poly2CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func poly2CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly2CGFreeUnitRoundoff
 }
@@ -1110,6 +1110,7 @@ func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float
 	var high poly2CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous poly2CGFreeLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend poly2CGFreeRiseTrend                  // of the trials failing sufficient decrease
 	limit := poly2CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1133,7 +1134,6 @@ func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float
 		poly2CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := poly2CGFreeLinePoint{step: t, value: poly2CGFreeValue(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !poly2CGFreeFinite(current.value) || current.value > fx+poly2CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1156,8 +1156,8 @@ func poly2CGFreeLineSearch(recv *Poly, x *[2]float64, fx float64, g, d *[2]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return poly2CGFreeLineResult{step: t, value: current.value, calls: calls, gradient: true, end: poly2CGFreeSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place poly2CGFreeExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -762,7 +762,7 @@ func poly3CGFreeLarger(a, b float64) float64 {
 }
 
 // poly3CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func poly3CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly3CGFreeUnitRoundoff
 }
@@ -1146,6 +1146,7 @@ func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float
 	var high poly3CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous poly3CGFreeLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend poly3CGFreeRiseTrend                  // of the trials failing sufficient decrease
 	limit := poly3CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1169,7 +1170,6 @@ func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float
 		poly3CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := poly3CGFreeLinePoint{step: t, value: poly3CGFreeValue(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !poly3CGFreeFinite(current.value) || current.value > fx+poly3CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1192,8 +1192,8 @@ func poly3CGFreeLineSearch(recv *Poly, x *[3]float64, fx float64, g, d *[3]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return poly3CGFreeLineResult{step: t, value: current.value, calls: calls, gradient: true, end: poly3CGFreeSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place poly3CGFreeExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

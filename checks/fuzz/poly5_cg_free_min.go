@@ -808,7 +808,7 @@ func poly5CGFreeLarger(a, b float64) float64 {
 }
 
 // poly5CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func poly5CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly5CGFreeUnitRoundoff
 }
@@ -1248,6 +1248,7 @@ func poly5CGFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float
 	var high poly5CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [5]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous poly5CGFreeLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend poly5CGFreeRiseTrend                  // of the trials failing sufficient decrease
 	limit := poly5CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1271,7 +1272,6 @@ func poly5CGFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float
 		poly5CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := poly5CGFreeLinePoint{step: t, value: poly5CGFreeValue(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !poly5CGFreeFinite(current.value) || current.value > fx+poly5CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1294,8 +1294,8 @@ func poly5CGFreeLineSearch(recv *Poly, x *[5]float64, fx float64, g, d *[5]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return poly5CGFreeLineResult{step: t, value: current.value, calls: calls, gradient: true, end: poly5CGFreeSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place poly5CGFreeExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -778,7 +778,7 @@ func poly8CGFreeLarger(a, b float64) float64 {
 }
 
 // poly8CGFreeCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func poly8CGFreeCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > poly8CGFreeUnitRoundoff
 }
@@ -1182,6 +1182,7 @@ func poly8CGFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float
 	var high poly8CGFreeLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [8]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous poly8CGFreeLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend poly8CGFreeRiseTrend                  // of the trials failing sufficient decrease
 	limit := poly8CGFreeStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1205,7 +1206,6 @@ func poly8CGFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float
 		poly8CGFreeTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := poly8CGFreeLinePoint{step: t, value: poly8CGFreeValue(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !poly8CGFreeFinite(current.value) || current.value > fx+poly8CGFreeStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1228,8 +1228,8 @@ func poly8CGFreeLineSearch(recv *Poly, x *[8]float64, fx float64, g, d *[8]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return poly8CGFreeLineResult{step: t, value: current.value, calls: calls, gradient: true, end: poly8CGFreeSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place poly8CGFreeExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

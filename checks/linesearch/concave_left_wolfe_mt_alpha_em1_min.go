@@ -977,6 +977,7 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 	var high concaveLeftWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous concaveLeftWolfeMTAlphaEm1LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend concaveLeftWolfeMTAlphaEm1RiseTrend                  // of the trials failing sufficient decrease
 	limit := concaveLeftWolfeMTAlphaEm1StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1000,7 +1001,6 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 		concaveLeftWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveLeftWolfeMTAlphaEm1LinePoint{step: t, value: concaveLeftWolfeMTAlphaEm1Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !concaveLeftWolfeMTAlphaEm1Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1023,8 +1023,8 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]fl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return concaveLeftWolfeMTAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveLeftWolfeMTAlphaEm1SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place concaveLeftWolfeMTAlphaEm1ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

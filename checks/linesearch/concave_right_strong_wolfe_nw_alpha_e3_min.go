@@ -979,6 +979,7 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d 
 	var high concaveRightStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous concaveRightStrongWolfeNWAlphaE3LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend concaveRightStrongWolfeNWAlphaE3RiseTrend                  // of the trials failing sufficient decrease
 	limit := concaveRightStrongWolfeNWAlphaE3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1002,7 +1003,6 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d 
 		concaveRightStrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightStrongWolfeNWAlphaE3LinePoint{step: t, value: concaveRightStrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !concaveRightStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+concaveRightStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1025,8 +1025,8 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return concaveRightStrongWolfeNWAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightStrongWolfeNWAlphaE3SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place concaveRightStrongWolfeNWAlphaE3ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

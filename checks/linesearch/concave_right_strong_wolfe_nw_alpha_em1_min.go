@@ -979,6 +979,7 @@ func concaveRightStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d
 	var high concaveRightStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous concaveRightStrongWolfeNWAlphaEm1LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend concaveRightStrongWolfeNWAlphaEm1RiseTrend                  // of the trials failing sufficient decrease
 	limit := concaveRightStrongWolfeNWAlphaEm1StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1002,7 +1003,6 @@ func concaveRightStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d
 		concaveRightStrongWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightStrongWolfeNWAlphaEm1LinePoint{step: t, value: concaveRightStrongWolfeNWAlphaEm1Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !concaveRightStrongWolfeNWAlphaEm1Finite(current.value) || current.value > fx+concaveRightStrongWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1025,8 +1025,8 @@ func concaveRightStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return concaveRightStrongWolfeNWAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightStrongWolfeNWAlphaEm1SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place concaveRightStrongWolfeNWAlphaEm1ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

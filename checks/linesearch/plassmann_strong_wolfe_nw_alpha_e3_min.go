@@ -978,6 +978,7 @@ func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1
 	var high plassmannStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous plassmannStrongWolfeNWAlphaE3LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend plassmannStrongWolfeNWAlphaE3RiseTrend                  // of the trials failing sufficient decrease
 	limit := plassmannStrongWolfeNWAlphaE3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1001,7 +1002,6 @@ func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1
 		plassmannStrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannStrongWolfeNWAlphaE3LinePoint{step: t, value: plassmannStrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !plassmannStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1024,8 +1024,8 @@ func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return plassmannStrongWolfeNWAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannStrongWolfeNWAlphaE3SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place plassmannStrongWolfeNWAlphaE3ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

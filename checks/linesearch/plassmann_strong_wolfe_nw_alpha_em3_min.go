@@ -978,6 +978,7 @@ func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[
 	var high plassmannStrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous plassmannStrongWolfeNWAlphaEm3LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend plassmannStrongWolfeNWAlphaEm3RiseTrend                  // of the trials failing sufficient decrease
 	limit := plassmannStrongWolfeNWAlphaEm3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1001,7 +1002,6 @@ func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[
 		plassmannStrongWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannStrongWolfeNWAlphaEm3LinePoint{step: t, value: plassmannStrongWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !plassmannStrongWolfeNWAlphaEm3Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1024,8 +1024,8 @@ func plassmannStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return plassmannStrongWolfeNWAlphaEm3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannStrongWolfeNWAlphaEm3SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place plassmannStrongWolfeNWAlphaEm3ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -977,6 +977,7 @@ func yok1StrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 	var high yok1StrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous yok1StrongWolfeNWAlphaE3LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend yok1StrongWolfeNWAlphaE3RiseTrend                  // of the trials failing sufficient decrease
 	limit := yok1StrongWolfeNWAlphaE3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1000,7 +1001,6 @@ func yok1StrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 		yok1StrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := yok1StrongWolfeNWAlphaE3LinePoint{step: t, value: yok1StrongWolfeNWAlphaE3Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !yok1StrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+yok1StrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1023,8 +1023,8 @@ func yok1StrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]floa
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return yok1StrongWolfeNWAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: yok1StrongWolfeNWAlphaE3SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place yok1StrongWolfeNWAlphaE3ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -977,6 +977,7 @@ func yok2StrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 	var high yok2StrongWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous yok2StrongWolfeNWAlphaEm3LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend yok2StrongWolfeNWAlphaEm3RiseTrend                  // of the trials failing sufficient decrease
 	limit := yok2StrongWolfeNWAlphaEm3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1000,7 +1001,6 @@ func yok2StrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 		yok2StrongWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := yok2StrongWolfeNWAlphaEm3LinePoint{step: t, value: yok2StrongWolfeNWAlphaEm3Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !yok2StrongWolfeNWAlphaEm3Finite(current.value) || current.value > fx+yok2StrongWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1023,8 +1023,8 @@ func yok2StrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]flo
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return yok2StrongWolfeNWAlphaEm3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: yok2StrongWolfeNWAlphaEm3SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place yok2StrongWolfeNWAlphaEm3ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -976,6 +976,7 @@ func yok2WolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 	var high yok2WolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous yok2WolfeMTAlphaE3LinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend yok2WolfeMTAlphaE3RiseTrend                  // of the trials failing sufficient decrease
 	limit := yok2WolfeMTAlphaE3StepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -999,7 +1000,6 @@ func yok2WolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 		yok2WolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := yok2WolfeMTAlphaE3LinePoint{step: t, value: yok2WolfeMTAlphaE3Value(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !yok2WolfeMTAlphaE3Finite(current.value) || current.value > fx+yok2WolfeMTAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1022,8 +1022,8 @@ func yok2WolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, s
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return yok2WolfeMTAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: yok2WolfeMTAlphaE3SearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place yok2WolfeMTAlphaE3ExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

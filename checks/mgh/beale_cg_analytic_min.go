@@ -746,7 +746,7 @@ func bealeCGAnalyticLarger(a, b float64) float64 {
 }
 
 // bealeCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func bealeCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > bealeCGAnalyticUnitRoundoff
 }
@@ -1110,6 +1110,7 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slop
 	var high bealeCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous bealeCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend bealeCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := bealeCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1133,7 +1134,6 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slop
 		bealeCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeCGAnalyticLinePoint{step: t, value: bealeCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !bealeCGAnalyticFinite(current.value) || current.value > fx+bealeCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1156,8 +1156,8 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slop
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return bealeCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place bealeCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -634,7 +634,7 @@ func (s *bealeLBFGSCentralDirection) compute(g, d *[2]float64) {
 }
 
 func (s *bealeLBFGSCentralDirection) update(step, change *[2]float64) {
-	sy, ss, yy := bealeLBFGSCentralDot(step, change), bealeLBFGSCentralDot(step, step), bealeLBFGSCentralDot(change, change)
+	sy, ss, yy := bealeLBFGSCentralPairProducts(step, change)
 	if !bealeLBFGSCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -679,8 +679,24 @@ func bealeLBFGSCentralNegate(out, x *[2]float64) {
 	}
 }
 
+// bealeLBFGSCentralPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func bealeLBFGSCentralPairProducts(s, y *[2]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+	}
+	return sy, ss, yy
+}
+
 // bealeLBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see bealeLBFGSCentralPairProducts; cg sums a fourth in the same pass).
 func bealeLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > bealeLBFGSCentralUnitRoundoff
 }
@@ -1256,6 +1272,7 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, sl
 	var high bealeLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous bealeLBFGSCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend bealeLBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := bealeLBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1279,7 +1296,6 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, sl
 		bealeLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeLBFGSCentralLinePoint{step: t, value: bealeLBFGSCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !bealeLBFGSCentralFinite(current.value) || current.value > fx+bealeLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1302,8 +1318,8 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, sl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return bealeLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeLBFGSCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place bealeLBFGSCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

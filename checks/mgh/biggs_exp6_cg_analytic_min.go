@@ -824,7 +824,7 @@ func biggsEXP6CGAnalyticLarger(a, b float64) float64 {
 }
 
 // biggsEXP6CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func biggsEXP6CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6CGAnalyticUnitRoundoff
 }
@@ -1284,6 +1284,7 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous biggsEXP6CGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend biggsEXP6CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := biggsEXP6CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1307,7 +1308,6 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 		biggsEXP6CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6CGAnalyticLinePoint{step: t, value: biggsEXP6CGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !biggsEXP6CGAnalyticFinite(current.value) || current.value > fx+biggsEXP6CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1330,8 +1330,8 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return biggsEXP6CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6CGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place biggsEXP6CGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -824,7 +824,7 @@ func biggsEXP6CGCentralLarger(a, b float64) float64 {
 }
 
 // biggsEXP6CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func biggsEXP6CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > biggsEXP6CGCentralUnitRoundoff
 }
@@ -1463,6 +1463,7 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, s
 	var high biggsEXP6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous biggsEXP6CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend biggsEXP6CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := biggsEXP6CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1486,7 +1487,6 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, s
 		biggsEXP6CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6CGCentralLinePoint{step: t, value: biggsEXP6CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !biggsEXP6CGCentralFinite(current.value) || current.value > fx+biggsEXP6CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1509,8 +1509,8 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, s
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return biggsEXP6CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place biggsEXP6CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

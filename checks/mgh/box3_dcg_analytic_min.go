@@ -762,7 +762,7 @@ func box3DCGAnalyticLarger(a, b float64) float64 {
 }
 
 // box3DCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func box3DCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > box3DCGAnalyticUnitRoundoff
 }
@@ -1146,6 +1146,7 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slop
 	var high box3DCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous box3DCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend box3DCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := box3DCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1169,7 +1170,6 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slop
 		box3DCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DCGAnalyticLinePoint{step: t, value: box3DCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !box3DCGAnalyticFinite(current.value) || current.value > fx+box3DCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1192,8 +1192,8 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slop
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return box3DCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place box3DCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -762,7 +762,7 @@ func box3DCGCentralLarger(a, b float64) float64 {
 }
 
 // box3DCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func box3DCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > box3DCGCentralUnitRoundoff
 }
@@ -1375,6 +1375,7 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope
 	var high box3DCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous box3DCGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend box3DCGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := box3DCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1398,7 +1399,6 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope
 		box3DCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DCGCentralLinePoint{step: t, value: box3DCGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !box3DCGCentralFinite(current.value) || current.value > fx+box3DCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1421,8 +1421,8 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return box3DCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DCGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place box3DCGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -637,7 +637,7 @@ func (s *box3DLBFGSCentralDirection) compute(g, d *[3]float64) {
 }
 
 func (s *box3DLBFGSCentralDirection) update(step, change *[3]float64) {
-	sy, ss, yy := box3DLBFGSCentralDot(step, change), box3DLBFGSCentralDot(step, step), box3DLBFGSCentralDot(change, change)
+	sy, ss, yy := box3DLBFGSCentralPairProducts(step, change)
 	if !box3DLBFGSCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -684,8 +684,27 @@ func box3DLBFGSCentralNegate(out, x *[3]float64) {
 	}
 }
 
+// box3DLBFGSCentralPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func box3DLBFGSCentralPairProducts(s, y *[3]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+		sy += s[2] * y[2]
+		ss += s[2] * s[2]
+		yy += y[2] * y[2]
+	}
+	return sy, ss, yy
+}
+
 // box3DLBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see box3DLBFGSCentralPairProducts; cg sums a fourth in the same pass).
 func box3DLBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > box3DLBFGSCentralUnitRoundoff
 }
@@ -1304,6 +1323,7 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 	var high box3DLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous box3DLBFGSCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend box3DLBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := box3DLBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1327,7 +1347,6 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 		box3DLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DLBFGSCentralLinePoint{step: t, value: box3DLBFGSCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !box3DLBFGSCentralFinite(current.value) || current.value > fx+box3DLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1350,8 +1369,8 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, sl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return box3DLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DLBFGSCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place box3DLBFGSCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -746,7 +746,7 @@ func brownBadlyScaledCGAnalyticLarger(a, b float64) float64 {
 }
 
 // brownBadlyScaledCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func brownBadlyScaledCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledCGAnalyticUnitRoundoff
 }
@@ -1111,6 +1111,7 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]fl
 	var high brownBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous brownBadlyScaledCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend brownBadlyScaledCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := brownBadlyScaledCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1134,7 +1135,6 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]fl
 		brownBadlyScaledCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledCGAnalyticLinePoint{step: t, value: brownBadlyScaledCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !brownBadlyScaledCGAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1157,8 +1157,8 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]fl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return brownBadlyScaledCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place brownBadlyScaledCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

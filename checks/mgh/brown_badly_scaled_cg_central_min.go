@@ -746,7 +746,7 @@ func brownBadlyScaledCGCentralLarger(a, b float64) float64 {
 }
 
 // brownBadlyScaledCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func brownBadlyScaledCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledCGCentralUnitRoundoff
 }
@@ -1317,6 +1317,7 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]flo
 	var high brownBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous brownBadlyScaledCGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend brownBadlyScaledCGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := brownBadlyScaledCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1340,7 +1341,6 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]flo
 		brownBadlyScaledCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledCGCentralLinePoint{step: t, value: brownBadlyScaledCGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !brownBadlyScaledCGCentralFinite(current.value) || current.value > fx+brownBadlyScaledCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1363,8 +1363,8 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]flo
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return brownBadlyScaledCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledCGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place brownBadlyScaledCGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -634,7 +634,7 @@ func (s *brownBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 }
 
 func (s *brownBadlyScaledLBFGSAnalyticDirection) update(step, change *[2]float64) {
-	sy, ss, yy := brownBadlyScaledLBFGSAnalyticDot(step, change), brownBadlyScaledLBFGSAnalyticDot(step, step), brownBadlyScaledLBFGSAnalyticDot(change, change)
+	sy, ss, yy := brownBadlyScaledLBFGSAnalyticPairProducts(step, change)
 	if !brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -679,8 +679,24 @@ func brownBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
 	}
 }
 
+// brownBadlyScaledLBFGSAnalyticPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func brownBadlyScaledLBFGSAnalyticPairProducts(s, y *[2]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+	}
+	return sy, ss, yy
+}
+
 // brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see brownBadlyScaledLBFGSAnalyticPairProducts; cg sums a fourth in the same pass).
 func brownBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
 }
@@ -1052,6 +1068,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous brownBadlyScaledLBFGSAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend brownBadlyScaledLBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := brownBadlyScaledLBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1075,7 +1092,6 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2
 		brownBadlyScaledLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledLBFGSAnalyticLinePoint{step: t, value: brownBadlyScaledLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !brownBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1098,8 +1114,8 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return brownBadlyScaledLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledLBFGSAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place brownBadlyScaledLBFGSAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

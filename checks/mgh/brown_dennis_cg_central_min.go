@@ -778,7 +778,7 @@ func brownDennisCGCentralLarger(a, b float64) float64 {
 }
 
 // brownDennisCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func brownDennisCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > brownDennisCGCentralUnitRoundoff
 }
@@ -1434,6 +1434,7 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 	var high brownDennisCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous brownDennisCGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend brownDennisCGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := brownDennisCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1457,7 +1458,6 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 		brownDennisCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownDennisCGCentralLinePoint{step: t, value: brownDennisCGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !brownDennisCGCentralFinite(current.value) || current.value > fx+brownDennisCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1480,8 +1480,8 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return brownDennisCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownDennisCGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place brownDennisCGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -762,7 +762,7 @@ func gulfRDCGAnalyticLarger(a, b float64) float64 {
 }
 
 // gulfRDCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func gulfRDCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > gulfRDCGAnalyticUnitRoundoff
 }
@@ -1146,6 +1146,7 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slo
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous gulfRDCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend gulfRDCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := gulfRDCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1169,7 +1170,6 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slo
 		gulfRDCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDCGAnalyticLinePoint{step: t, value: gulfRDCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !gulfRDCGAnalyticFinite(current.value) || current.value > fx+gulfRDCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1192,8 +1192,8 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slo
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return gulfRDCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place gulfRDCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

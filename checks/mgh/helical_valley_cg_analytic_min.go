@@ -762,7 +762,7 @@ func helicalValleyCGAnalyticLarger(a, b float64) float64 {
 }
 
 // helicalValleyCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func helicalValleyCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > helicalValleyCGAnalyticUnitRoundoff
 }
@@ -1147,6 +1147,7 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float
 	var high helicalValleyCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous helicalValleyCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend helicalValleyCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := helicalValleyCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1170,7 +1171,6 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float
 		helicalValleyCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyCGAnalyticLinePoint{step: t, value: helicalValleyCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !helicalValleyCGAnalyticFinite(current.value) || current.value > fx+helicalValleyCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1193,8 +1193,8 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return helicalValleyCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place helicalValleyCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

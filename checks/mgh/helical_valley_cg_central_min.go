@@ -762,7 +762,7 @@ func helicalValleyCGCentralLarger(a, b float64) float64 {
 }
 
 // helicalValleyCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func helicalValleyCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > helicalValleyCGCentralUnitRoundoff
 }
@@ -1376,6 +1376,7 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float6
 	var high helicalValleyCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous helicalValleyCGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend helicalValleyCGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := helicalValleyCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1399,7 +1400,6 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float6
 		helicalValleyCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyCGCentralLinePoint{step: t, value: helicalValleyCGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !helicalValleyCGCentralFinite(current.value) || current.value > fx+helicalValleyCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1422,8 +1422,8 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float6
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return helicalValleyCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyCGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place helicalValleyCGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -824,7 +824,7 @@ func penaltyI10CGAnalyticLarger(a, b float64) float64 {
 }
 
 // penaltyI10CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func penaltyI10CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI10CGAnalyticUnitRoundoff
 }
@@ -1284,6 +1284,7 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 	var high penaltyI10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous penaltyI10CGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend penaltyI10CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := penaltyI10CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1307,7 +1308,6 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 		penaltyI10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI10CGAnalyticLinePoint{step: t, value: penaltyI10CGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !penaltyI10CGAnalyticFinite(current.value) || current.value > fx+penaltyI10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1330,8 +1330,8 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return penaltyI10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI10CGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place penaltyI10CGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -778,7 +778,7 @@ func penaltyI4CGCentralLarger(a, b float64) float64 {
 }
 
 // penaltyI4CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func penaltyI4CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI4CGCentralUnitRoundoff
 }
@@ -1434,6 +1434,7 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, s
 	var high penaltyI4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous penaltyI4CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend penaltyI4CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := penaltyI4CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1457,7 +1458,6 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, s
 		penaltyI4CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI4CGCentralLinePoint{step: t, value: penaltyI4CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !penaltyI4CGCentralFinite(current.value) || current.value > fx+penaltyI4CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1480,8 +1480,8 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, s
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return penaltyI4CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI4CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place penaltyI4CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -824,7 +824,7 @@ func penaltyII10CGAnalyticLarger(a, b float64) float64 {
 }
 
 // penaltyII10CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func penaltyII10CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10CGAnalyticUnitRoundoff
 }
@@ -1285,6 +1285,7 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float
 	var high penaltyII10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous penaltyII10CGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend penaltyII10CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := penaltyII10CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1308,7 +1309,6 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float
 		penaltyII10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10CGAnalyticLinePoint{step: t, value: penaltyII10CGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !penaltyII10CGAnalyticFinite(current.value) || current.value > fx+penaltyII10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1331,8 +1331,8 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return penaltyII10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10CGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place penaltyII10CGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

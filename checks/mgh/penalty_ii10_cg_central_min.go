@@ -824,7 +824,7 @@ func penaltyII10CGCentralLarger(a, b float64) float64 {
 }
 
 // penaltyII10CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func penaltyII10CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII10CGCentralUnitRoundoff
 }
@@ -1463,6 +1463,7 @@ func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 	var high penaltyII10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous penaltyII10CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend penaltyII10CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := penaltyII10CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1486,7 +1487,6 @@ func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 		penaltyII10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10CGCentralLinePoint{step: t, value: penaltyII10CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !penaltyII10CGCentralFinite(current.value) || current.value > fx+penaltyII10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1509,8 +1509,8 @@ func penaltyII10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float6
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return penaltyII10CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place penaltyII10CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -778,7 +778,7 @@ func penaltyII4CGAnalyticLarger(a, b float64) float64 {
 }
 
 // penaltyII4CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func penaltyII4CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyII4CGAnalyticUnitRoundoff
 }
@@ -1182,6 +1182,7 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 	var high penaltyII4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous penaltyII4CGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend penaltyII4CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := penaltyII4CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1205,7 +1206,6 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 		penaltyII4CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4CGAnalyticLinePoint{step: t, value: penaltyII4CGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !penaltyII4CGAnalyticFinite(current.value) || current.value > fx+penaltyII4CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1228,8 +1228,8 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64,
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return penaltyII4CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4CGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place penaltyII4CGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

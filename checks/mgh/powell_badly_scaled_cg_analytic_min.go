@@ -746,7 +746,7 @@ func powellBadlyScaledCGAnalyticLarger(a, b float64) float64 {
 }
 
 // powellBadlyScaledCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func powellBadlyScaledCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > powellBadlyScaledCGAnalyticUnitRoundoff
 }
@@ -1112,6 +1112,7 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]f
 	var high powellBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous powellBadlyScaledCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend powellBadlyScaledCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := powellBadlyScaledCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1135,7 +1136,6 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]f
 		powellBadlyScaledCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledCGAnalyticLinePoint{step: t, value: powellBadlyScaledCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !powellBadlyScaledCGAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1158,8 +1158,8 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]f
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return powellBadlyScaledCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place powellBadlyScaledCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

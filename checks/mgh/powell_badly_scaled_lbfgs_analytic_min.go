@@ -634,7 +634,7 @@ func (s *powellBadlyScaledLBFGSAnalyticDirection) compute(g, d *[2]float64) {
 }
 
 func (s *powellBadlyScaledLBFGSAnalyticDirection) update(step, change *[2]float64) {
-	sy, ss, yy := powellBadlyScaledLBFGSAnalyticDot(step, change), powellBadlyScaledLBFGSAnalyticDot(step, step), powellBadlyScaledLBFGSAnalyticDot(change, change)
+	sy, ss, yy := powellBadlyScaledLBFGSAnalyticPairProducts(step, change)
 	if !powellBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -679,8 +679,24 @@ func powellBadlyScaledLBFGSAnalyticNegate(out, x *[2]float64) {
 	}
 }
 
+// powellBadlyScaledLBFGSAnalyticPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func powellBadlyScaledLBFGSAnalyticPairProducts(s, y *[2]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+	}
+	return sy, ss, yy
+}
+
 // powellBadlyScaledLBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see powellBadlyScaledLBFGSAnalyticPairProducts; cg sums a fourth in the same pass).
 func powellBadlyScaledLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > powellBadlyScaledLBFGSAnalyticUnitRoundoff
 }
@@ -1052,6 +1068,7 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[
 	var high powellBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous powellBadlyScaledLBFGSAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend powellBadlyScaledLBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := powellBadlyScaledLBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1075,7 +1092,6 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[
 		powellBadlyScaledLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledLBFGSAnalyticLinePoint{step: t, value: powellBadlyScaledLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !powellBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1098,8 +1114,8 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return powellBadlyScaledLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledLBFGSAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place powellBadlyScaledLBFGSAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

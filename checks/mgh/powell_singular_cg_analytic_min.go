@@ -778,7 +778,7 @@ func powellSingularCGAnalyticLarger(a, b float64) float64 {
 }
 
 // powellSingularCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func powellSingularCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > powellSingularCGAnalyticUnitRoundoff
 }
@@ -1183,6 +1183,7 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]floa
 	var high powellSingularCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous powellSingularCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend powellSingularCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := powellSingularCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1206,7 +1207,6 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]floa
 		powellSingularCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularCGAnalyticLinePoint{step: t, value: powellSingularCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !powellSingularCGAnalyticFinite(current.value) || current.value > fx+powellSingularCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1229,8 +1229,8 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]floa
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return powellSingularCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place powellSingularCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

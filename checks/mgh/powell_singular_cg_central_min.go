@@ -778,7 +778,7 @@ func powellSingularCGCentralLarger(a, b float64) float64 {
 }
 
 // powellSingularCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func powellSingularCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > powellSingularCGCentralUnitRoundoff
 }
@@ -1435,6 +1435,7 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float
 	var high powellSingularCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous powellSingularCGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend powellSingularCGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := powellSingularCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1458,7 +1459,6 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float
 		powellSingularCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularCGCentralLinePoint{step: t, value: powellSingularCGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !powellSingularCGCentralFinite(current.value) || current.value > fx+powellSingularCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1481,8 +1481,8 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return powellSingularCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularCGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place powellSingularCGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -746,7 +746,7 @@ func rosenbrockCGCentralLarger(a, b float64) float64 {
 }
 
 // rosenbrockCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func rosenbrockCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > rosenbrockCGCentralUnitRoundoff
 }
@@ -1316,6 +1316,7 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, 
 	var high rosenbrockCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous rosenbrockCGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend rosenbrockCGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := rosenbrockCGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1339,7 +1340,6 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, 
 		rosenbrockCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockCGCentralLinePoint{step: t, value: rosenbrockCGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !rosenbrockCGCentralFinite(current.value) || current.value > fx+rosenbrockCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1362,8 +1362,8 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return rosenbrockCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockCGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place rosenbrockCGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

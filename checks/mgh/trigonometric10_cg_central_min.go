@@ -824,7 +824,7 @@ func trigonometric10CGCentralLarger(a, b float64) float64 {
 }
 
 // trigonometric10CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func trigonometric10CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > trigonometric10CGCentralUnitRoundoff
 }
@@ -1464,6 +1464,7 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]fl
 	var high trigonometric10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous trigonometric10CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend trigonometric10CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := trigonometric10CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1487,7 +1488,6 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]fl
 		trigonometric10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := trigonometric10CGCentralLinePoint{step: t, value: trigonometric10CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !trigonometric10CGCentralFinite(current.value) || current.value > fx+trigonometric10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1510,8 +1510,8 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]fl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return trigonometric10CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: trigonometric10CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place trigonometric10CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -824,7 +824,7 @@ func variablyDimensioned10CGAnalyticLarger(a, b float64) float64 {
 }
 
 // variablyDimensioned10CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func variablyDimensioned10CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > variablyDimensioned10CGAnalyticUnitRoundoff
 }
@@ -1286,6 +1286,7 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d 
 	var high variablyDimensioned10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous variablyDimensioned10CGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend variablyDimensioned10CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := variablyDimensioned10CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1309,7 +1310,6 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d 
 		variablyDimensioned10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := variablyDimensioned10CGAnalyticLinePoint{step: t, value: variablyDimensioned10CGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !variablyDimensioned10CGAnalyticFinite(current.value) || current.value > fx+variablyDimensioned10CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1332,8 +1332,8 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return variablyDimensioned10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: variablyDimensioned10CGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place variablyDimensioned10CGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

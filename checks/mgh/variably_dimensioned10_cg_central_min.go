@@ -824,7 +824,7 @@ func variablyDimensioned10CGCentralLarger(a, b float64) float64 {
 }
 
 // variablyDimensioned10CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func variablyDimensioned10CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > variablyDimensioned10CGCentralUnitRoundoff
 }
@@ -1465,6 +1465,7 @@ func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *
 	var high variablyDimensioned10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous variablyDimensioned10CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend variablyDimensioned10CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := variablyDimensioned10CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1488,7 +1489,6 @@ func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *
 		variablyDimensioned10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := variablyDimensioned10CGCentralLinePoint{step: t, value: variablyDimensioned10CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !variablyDimensioned10CGCentralFinite(current.value) || current.value > fx+variablyDimensioned10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1511,8 +1511,8 @@ func variablyDimensioned10CGCentralLineSearch(x *[10]float64, fx float64, g, d *
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return variablyDimensioned10CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: variablyDimensioned10CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place variablyDimensioned10CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -824,7 +824,7 @@ func watson6CGCentralLarger(a, b float64) float64 {
 }
 
 // watson6CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func watson6CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson6CGCentralUnitRoundoff
 }
@@ -1463,6 +1463,7 @@ func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slo
 	var high watson6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous watson6CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend watson6CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := watson6CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1486,7 +1487,6 @@ func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slo
 		watson6CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson6CGCentralLinePoint{step: t, value: watson6CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !watson6CGCentralFinite(current.value) || current.value > fx+watson6CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1509,8 +1509,8 @@ func watson6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slo
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return watson6CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson6CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place watson6CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -652,7 +652,7 @@ func (s *watson6LBFGSCentralDirection) compute(g, d *[6]float64) {
 }
 
 func (s *watson6LBFGSCentralDirection) update(step, change *[6]float64) {
-	sy, ss, yy := watson6LBFGSCentralDot(step, change), watson6LBFGSCentralDot(step, step), watson6LBFGSCentralDot(change, change)
+	sy, ss, yy := watson6LBFGSCentralPairProducts(step, change)
 	if !watson6LBFGSCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -709,8 +709,38 @@ func watson6LBFGSCentralNegate(out, x *[6]float64) {
 	}
 }
 
+// watson6LBFGSCentralPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func watson6LBFGSCentralPairProducts(s, y *[6]float64) (sy, ss, yy float64) {
+	{
+		for i := 0; i < 4; i += 4 {
+			sy += s[i] * y[i]
+			ss += s[i] * s[i]
+			yy += y[i] * y[i]
+			sy += s[i+1] * y[i+1]
+			ss += s[i+1] * s[i+1]
+			yy += y[i+1] * y[i+1]
+			sy += s[i+2] * y[i+2]
+			ss += s[i+2] * s[i+2]
+			yy += y[i+2] * y[i+2]
+			sy += s[i+3] * y[i+3]
+			ss += s[i+3] * s[i+3]
+			yy += y[i+3] * y[i+3]
+		}
+		sy += s[4] * y[4]
+		ss += s[4] * s[4]
+		yy += y[4] * y[4]
+		sy += s[5] * y[5]
+		ss += s[5] * s[5]
+		yy += y[5] * y[5]
+	}
+	return sy, ss, yy
+}
+
 // watson6LBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see watson6LBFGSCentralPairProducts; cg sums a fourth in the same pass).
 func watson6LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson6LBFGSCentralUnitRoundoff
 }
@@ -1355,6 +1385,7 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 	var high watson6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous watson6LBFGSCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend watson6LBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := watson6LBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1378,7 +1409,6 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 		watson6LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson6LBFGSCentralLinePoint{step: t, value: watson6LBFGSCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !watson6LBFGSCentralFinite(current.value) || current.value > fx+watson6LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1401,8 +1431,8 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return watson6LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson6LBFGSCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place watson6LBFGSCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -613,12 +613,12 @@ func (s *watson9BFGSAnalyticDirection) compute(g, d *[9]float64) {
 }
 
 func (s *watson9BFGSAnalyticDirection) update(step, change *[9]float64) {
-	sy := watson9BFGSAnalyticDot(step, change)
-	if !watson9BFGSAnalyticCurvatureSafeWith(sy, step, change) {
+	sy, ss, yy := watson9BFGSAnalyticPairProducts(step, change)
+	if !watson9BFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := sy / watson9BFGSAnalyticDot(change, change) // N&W eq. 6.20
+		gamma := sy / yy // N&W eq. 6.20
 		{
 			for i := 0; i < 8; i += 4 {
 				s.h[i][i] = gamma
@@ -685,14 +685,35 @@ func watson9BFGSAnalyticDot(a, b *[9]float64) float64 {
 	return s
 }
 
-// watson9BFGSAnalyticCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func watson9BFGSAnalyticCurvatureSafeWith(sy float64, s, y *[9]float64) bool {
-	return watson9BFGSAnalyticCurvatureSafeFrom(sy, watson9BFGSAnalyticDot(s, s), watson9BFGSAnalyticDot(y, y))
+// watson9BFGSAnalyticPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func watson9BFGSAnalyticPairProducts(s, y *[9]float64) (sy, ss, yy float64) {
+	{
+		for i := 0; i < 8; i += 4 {
+			sy += s[i] * y[i]
+			ss += s[i] * s[i]
+			yy += y[i] * y[i]
+			sy += s[i+1] * y[i+1]
+			ss += s[i+1] * s[i+1]
+			yy += y[i+1] * y[i+1]
+			sy += s[i+2] * y[i+2]
+			ss += s[i+2] * s[i+2]
+			yy += y[i+2] * y[i+2]
+			sy += s[i+3] * y[i+3]
+			ss += s[i+3] * s[i+3]
+			yy += y[i+3] * y[i+3]
+		}
+		sy += s[8] * y[8]
+		ss += s[8] * s[8]
+		yy += y[8] * y[8]
+	}
+	return sy, ss, yy
 }
 
 // watson9BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see watson9BFGSAnalyticPairProducts; cg sums a fourth in the same pass).
 func watson9BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson9BFGSAnalyticUnitRoundoff
 }
@@ -1138,6 +1159,7 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 	var high watson9BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous watson9BFGSAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend watson9BFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := watson9BFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1161,7 +1183,6 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 		watson9BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9BFGSAnalyticLinePoint{step: t, value: watson9BFGSAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !watson9BFGSAnalyticFinite(current.value) || current.value > fx+watson9BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1184,8 +1205,8 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return watson9BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9BFGSAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place watson9BFGSAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -808,7 +808,7 @@ func watson9CGAnalyticLarger(a, b float64) float64 {
 }
 
 // watson9CGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func watson9CGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson9CGAnalyticUnitRoundoff
 }
@@ -1248,6 +1248,7 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, sl
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous watson9CGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend watson9CGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := watson9CGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1271,7 +1272,6 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, sl
 		watson9CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9CGAnalyticLinePoint{step: t, value: watson9CGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !watson9CGAnalyticFinite(current.value) || current.value > fx+watson9CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1294,8 +1294,8 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, sl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return watson9CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9CGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place watson9CGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

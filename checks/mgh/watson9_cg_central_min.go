@@ -808,7 +808,7 @@ func watson9CGCentralLarger(a, b float64) float64 {
 }
 
 // watson9CGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func watson9CGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson9CGCentralUnitRoundoff
 }
@@ -1427,6 +1427,7 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slo
 	var high watson9CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous watson9CGCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend watson9CGCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := watson9CGCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1450,7 +1451,6 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slo
 		watson9CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9CGCentralLinePoint{step: t, value: watson9CGCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !watson9CGCentralFinite(current.value) || current.value > fx+watson9CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1473,8 +1473,8 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slo
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return watson9CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9CGCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place watson9CGCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -649,7 +649,7 @@ func (s *watson9LBFGSCentralDirection) compute(g, d *[9]float64) {
 }
 
 func (s *watson9LBFGSCentralDirection) update(step, change *[9]float64) {
-	sy, ss, yy := watson9LBFGSCentralDot(step, change), watson9LBFGSCentralDot(step, step), watson9LBFGSCentralDot(change, change)
+	sy, ss, yy := watson9LBFGSCentralPairProducts(step, change)
 	if !watson9LBFGSCentralCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -704,8 +704,35 @@ func watson9LBFGSCentralNegate(out, x *[9]float64) {
 	}
 }
 
+// watson9LBFGSCentralPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func watson9LBFGSCentralPairProducts(s, y *[9]float64) (sy, ss, yy float64) {
+	{
+		for i := 0; i < 8; i += 4 {
+			sy += s[i] * y[i]
+			ss += s[i] * s[i]
+			yy += y[i] * y[i]
+			sy += s[i+1] * y[i+1]
+			ss += s[i+1] * s[i+1]
+			yy += y[i+1] * y[i+1]
+			sy += s[i+2] * y[i+2]
+			ss += s[i+2] * s[i+2]
+			yy += y[i+2] * y[i+2]
+			sy += s[i+3] * y[i+3]
+			ss += s[i+3] * s[i+3]
+			yy += y[i+3] * y[i+3]
+		}
+		sy += s[8] * y[8]
+		ss += s[8] * s[8]
+		yy += y[8] * y[8]
+	}
+	return sy, ss, yy
+}
+
 // watson9LBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see watson9LBFGSCentralPairProducts; cg sums a fourth in the same pass).
 func watson9LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson9LBFGSCentralUnitRoundoff
 }
@@ -1330,6 +1357,7 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 	var high watson9LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous watson9LBFGSCentralLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend watson9LBFGSCentralRiseTrend                  // of the trials failing sufficient decrease
 	limit := watson9LBFGSCentralStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1353,7 +1381,6 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 		watson9LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9LBFGSCentralLinePoint{step: t, value: watson9LBFGSCentralValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !watson9LBFGSCentralFinite(current.value) || current.value > fx+watson9LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1376,8 +1403,8 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, 
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return watson9LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9LBFGSCentralSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place watson9LBFGSCentralExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -778,7 +778,7 @@ func woodCGAnalyticLarger(a, b float64) float64 {
 }
 
 // woodCGAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func woodCGAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > woodCGAnalyticUnitRoundoff
 }
@@ -1182,6 +1182,7 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope
 	var high woodCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous woodCGAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend woodCGAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := woodCGAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1205,7 +1206,6 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope
 		woodCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodCGAnalyticLinePoint{step: t, value: woodCGAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !woodCGAnalyticFinite(current.value) || current.value > fx+woodCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1228,8 +1228,8 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return woodCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodCGAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place woodCGAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

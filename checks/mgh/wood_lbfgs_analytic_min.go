@@ -640,7 +640,7 @@ func (s *woodLBFGSAnalyticDirection) compute(g, d *[4]float64) {
 }
 
 func (s *woodLBFGSAnalyticDirection) update(step, change *[4]float64) {
-	sy, ss, yy := woodLBFGSAnalyticDot(step, change), woodLBFGSAnalyticDot(step, step), woodLBFGSAnalyticDot(change, change)
+	sy, ss, yy := woodLBFGSAnalyticPairProducts(step, change)
 	if !woodLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -689,8 +689,30 @@ func woodLBFGSAnalyticNegate(out, x *[4]float64) {
 	}
 }
 
+// woodLBFGSAnalyticPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func woodLBFGSAnalyticPairProducts(s, y *[4]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+		sy += s[2] * y[2]
+		ss += s[2] * s[2]
+		yy += y[2] * y[2]
+		sy += s[3] * y[3]
+		ss += s[3] * s[3]
+		yy += y[3] * y[3]
+	}
+	return sy, ss, yy
+}
+
 // woodLBFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see woodLBFGSAnalyticPairProducts; cg sums a fourth in the same pass).
 func woodLBFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > woodLBFGSAnalyticUnitRoundoff
 }
@@ -1100,6 +1122,7 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, sl
 	var high woodLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous woodLBFGSAnalyticLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend woodLBFGSAnalyticRiseTrend                  // of the trials failing sufficient decrease
 	limit := woodLBFGSAnalyticStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1123,7 +1146,6 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, sl
 		woodLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodLBFGSAnalyticLinePoint{step: t, value: woodLBFGSAnalyticValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !woodLBFGSAnalyticFinite(current.value) || current.value > fx+woodLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1146,8 +1168,8 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, sl
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return woodLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodLBFGSAnalyticSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place woodLBFGSAnalyticExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -608,12 +608,12 @@ func (s *calibrateDirection) compute(g, d *[2]float64) {
 }
 
 func (s *calibrateDirection) update(step, change *[2]float64) {
-	sy := calibrateDot(step, change)
-	if !calibrateCurvatureSafeWith(sy, step, change) {
+	sy, ss, yy := calibratePairProducts(step, change)
+	if !calibrateCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := sy / calibrateDot(change, change) // N&W eq. 6.20
+		gamma := sy / yy // N&W eq. 6.20
 		{
 			s.h[0][0] = gamma
 			s.h[1][1] = gamma
@@ -670,14 +670,24 @@ func calibrateDot(a, b *[2]float64) float64 {
 	return s
 }
 
-// calibrateCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func calibrateCurvatureSafeWith(sy float64, s, y *[2]float64) bool {
-	return calibrateCurvatureSafeFrom(sy, calibrateDot(s, s), calibrateDot(y, y))
+// calibratePairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func calibratePairProducts(s, y *[2]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+	}
+	return sy, ss, yy
 }
 
 // calibrateCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see calibratePairProducts; cg sums a fourth in the same pass).
 func calibrateCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > calibrateUnitRoundoff
 }

@@ -601,12 +601,12 @@ func (s *tuneGainDirection) compute(g, d *[1]float64) {
 }
 
 func (s *tuneGainDirection) update(step, change *[1]float64) {
-	sy := tuneGainDot(step, change)
-	if !tuneGainCurvatureSafeWith(sy, step, change) {
+	sy, ss, yy := tuneGainPairProducts(step, change)
+	if !tuneGainCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
 	if !s.scaled {
-		gamma := sy / tuneGainDot(change, change) // N&W eq. 6.20
+		gamma := sy / yy // N&W eq. 6.20
 		{
 			s.h[0][0] = gamma
 		}
@@ -651,14 +651,21 @@ func tuneGainDot(a, b *[1]float64) float64 {
 	return s
 }
 
-// tuneGainCurvatureSafeWith is curvatureSafe with sᵀy already computed (the bfgs
-// update needs it again).
-func tuneGainCurvatureSafeWith(sy float64, s, y *[1]float64) bool {
-	return tuneGainCurvatureSafeFrom(sy, tuneGainDot(s, s), tuneGainDot(y, y))
+// tuneGainPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func tuneGainPairProducts(s, y *[1]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+	}
+	return sy, ss, yy
 }
 
 // tuneGainCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see tuneGainPairProducts; cg sums a fourth in the same pass).
 func tuneGainCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > tuneGainUnitRoundoff
 }

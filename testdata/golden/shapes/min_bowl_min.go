@@ -763,7 +763,7 @@ func minBowlLarger(a, b float32) float32 {
 }
 
 // minBowlCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
 func minBowlCurvatureSafeFrom(sy, ss, yy float32) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > minBowlUnitRoundoff
 }
@@ -1318,6 +1318,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous minBowlLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend minBowlRiseTrend                  // of the trials failing sufficient decrease
 	limit := minBowlStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1341,7 +1342,6 @@ func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first
 		minBowlTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := minBowlLinePoint{step: t, value: minBowlValue(xt, gt, diffs)}
 		calls++
-		previous := low
 		if !minBowlFinite(current.value) || current.value > fx+minBowlStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1364,8 +1364,8 @@ func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return minBowlLineResult{step: t, value: current.value, calls: calls, gradient: true, end: minBowlSearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place minBowlExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {

@@ -634,7 +634,7 @@ func (s *minValleyDirection) compute(g, d *[2]float64) {
 }
 
 func (s *minValleyDirection) update(step, change *[2]float64) {
-	sy, ss, yy := minValleyDot(step, change), minValleyDot(step, step), minValleyDot(change, change)
+	sy, ss, yy := minValleyPairProducts(step, change)
 	if !minValleyCurvatureSafeFrom(sy, ss, yy) {
 		return
 	}
@@ -679,8 +679,24 @@ func minValleyNegate(out, x *[2]float64) {
 	}
 }
 
+// minValleyPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
+// sum in the order dot takes, so the products are dot's bit for bit, with
+// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
+// instructions, callgrind).
+func minValleyPairProducts(s, y *[2]float64) (sy, ss, yy float64) {
+	{
+		sy += s[0] * y[0]
+		ss += s[0] * s[0]
+		yy += y[0] * y[0]
+		sy += s[1] * y[1]
+		ss += s[1] * s[1]
+		yy += y[1] * y[1]
+	}
+	return sy, ss, yy
+}
+
 // minValleyCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (cg sums them in one pass).
+// and yᵀy (see minValleyPairProducts; cg sums a fourth in the same pass).
 func minValleyCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > minValleyUnitRoundoff
 }
@@ -1050,6 +1066,7 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	var previous minValleyLinePoint               // low before the last trial replaced it: the expansion's other point
 	var trend minValleyRiseTrend                  // of the trials failing sufficient decrease
 	limit := minValleyStepCap(x, d, floor, diffs) // the first bound along d, when the spec has bounds
 	t := first
@@ -1073,7 +1090,6 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float
 		minValleyTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := minValleyLinePoint{step: t, value: minValleyValue(recv, xt, gt, diffs)}
 		calls++
-		previous := low
 		if !minValleyFinite(current.value) || current.value > fx+minValleyStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 			trend.add(x, xt, d, t, current.value-fx, fx)
@@ -1096,8 +1112,8 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float
 				// Sufficient decrease at the first bound, still falling:
 				// the capped step, where the bound becomes active.
 				return minValleyLineResult{step: t, value: current.value, calls: calls, gradient: true, end: minValleySearchAccepted}
-			default:
-				low, lowGradient = current, *gt
+			default: // the only way on without a bracket, so the only place minValleyExpandTrial's previous is set
+				previous, low, lowGradient = low, current, *gt
 			}
 		}
 		if bracketed {
