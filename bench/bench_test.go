@@ -259,10 +259,17 @@ func instructionTable(t *testing.T, dir string, keys []string) string {
 		return (count(bench, solves+1) - once) / float64(solves)
 	}
 	var b strings.Builder
-	b.WriteString("\nInstructions per solve (valgrind --tool=callgrind, the difference between 1 solve and enough more for about 2·10⁸ instructions, at least 40, per solve):\n\n| benchmark | thalweg | floor | thalweg / floor |\n|---|---:|---:|---:|\n")
+	b.WriteString("\nInstructions per solve (valgrind --tool=callgrind, the difference between 1 solve and enough more for about 2·10⁸ instructions, at least 40, per solve; for steepest also the hand-written loop):\n\n| benchmark | thalweg | floor | thalweg / floor | hand | hand / thalweg |\n|---|---:|---:|---:|---:|---:|\n")
 	for _, key := range keys {
 		g, f := perSolve(key+"/thalweg"), perSolve(key+"/floor")
-		fmt.Fprintf(&b, "| %s | %.0f | %.0f | %.2f |\n", key, g, f, g/f)
+		row := fmt.Sprintf("| %s | %.0f | %.0f | %.2f |", key, g, f, g/f)
+		if strings.Contains(key, "/steepest/") {
+			h := perSolve(key + "/hand")
+			row += fmt.Sprintf(" %.0f | %.2f |", h, h/g)
+		} else {
+			row += "  |  |"
+		}
+		b.WriteString(row + "\n")
 	}
 	return b.String()
 }
