@@ -35,9 +35,9 @@ var (
 		SmallerState: `use direction "lbfgs" or "cg"`,
 		Fallback:     LBFGS,
 		// bench (README, Performance): lbfgs solves variably dimensioned
-		// (MGH 25) 1.5× faster than bfgs at N = 20 and 6.5× at 100, where
-		// bfgs's N² update dominates; at 10 it is 1.1× faster there but
-		// 1.3× slower on extended Rosenbrock (MGH 21), and below 10 bfgs
+		// (MGH 25) 1.7× faster than bfgs at N = 20 and 6.7× at 100, where
+		// bfgs's N² update dominates; at 10 it is 1.2× faster there but
+		// 1.15× slower on extended Rosenbrock (MGH 21), and below 10 bfgs
 		// is as fast or faster.
 		FallbackFrom: 20,
 	})
