@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -53,4 +54,26 @@ func diff(t *testing.T, want, got []byte) string {
 		return fmt.Sprintf("(no diff tool; %d bytes committed, %d generated)", len(want), len(got))
 	}
 	return string(out)
+}
+
+// Unrolled copies of a loop body print its comments once, with the first
+// copy; the later copies must not open on a blank line where the comments
+// stood (they did, in every golden minimizer with a declaring body).
+func TestNoBlankLineOpensABlock(t *testing.T) {
+	specs, err := filepath.Glob(filepath.Join("..", "testdata", "golden", "*", "*.toml"))
+	if err != nil || len(specs) == 0 {
+		t.Fatalf("no golden specs: %v", err)
+	}
+	outs, err := Generate(specs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, o := range outs {
+		lines := strings.Split(string(o.Data), "\n")
+		for i := 1; i < len(lines); i++ {
+			if lines[i] == "" && strings.HasSuffix(lines[i-1], "{") {
+				t.Errorf("%s:%d: a blank line opens the block of line %d: %q", filepath.Base(o.Path), i+1, i, lines[i-1])
+			}
+		}
+	}
 }

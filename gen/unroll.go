@@ -86,6 +86,7 @@ func (rw *rewriter) unroll(cp *kernelCopier, n *ast.RangeStmt) ast.Node {
 		return n
 	}
 	declares := declaresAtTop(n.Body)
+	copies := 0 // copies of a declaring body made so far
 	// copyAt appends to list a copy of the body with the index replaced by
 	// what at returns.
 	copyAt := func(list []ast.Stmt, at func(pos token.Pos) ast.Expr) []ast.Stmt {
@@ -107,6 +108,14 @@ func (rw *rewriter) unroll(cp *kernelCopier, n *ast.RangeStmt) ast.Node {
 		}
 		body := clone.block(n.Body)
 		if declares {
+			if copies > 0 && len(body.List) > 0 {
+				// The comments above the body's first statement print
+				// with the first copy only: the later copies' braces
+				// open on their first statement's line, so no blank
+				// line stands where the comments were.
+				body.Lbrace = body.List[0].Pos()
+			}
+			copies++
 			return append(list, body)
 		}
 		return append(list, body.List...)

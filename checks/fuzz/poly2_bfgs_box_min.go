@@ -651,7 +651,6 @@ func (s *poly2BFGSBoxDirection) update(step, change *[2]float64) {
 			}
 		}
 		{
-
 			a, b := outer*step[1]-rho*hy[1], rho*step[1]
 			{
 				s.h[1][0] += a*step[0] - b*hy[0]

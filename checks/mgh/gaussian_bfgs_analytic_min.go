@@ -653,7 +653,6 @@ func (s *gaussianBFGSAnalyticDirection) update(step, change *[3]float64) {
 			}
 		}
 		{
-
 			a, b := outer*step[1]-rho*hy[1], rho*step[1]
 			{
 				s.h[1][0] += a*step[0] - b*hy[0]
@@ -662,7 +661,6 @@ func (s *gaussianBFGSAnalyticDirection) update(step, change *[3]float64) {
 			}
 		}
 		{
-
 			a, b := outer*step[2]-rho*hy[2], rho*step[2]
 			{
 				s.h[2][0] += a*step[0] - b*hy[0]

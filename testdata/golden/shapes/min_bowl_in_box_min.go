@@ -663,7 +663,6 @@ func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
 			}
 		}
 		{
-
 			a, b := outer*step[1]-rho*hy[1], rho*step[1]
 			{
 				s.h[1][0] += a*step[0] - b*hy[0]
@@ -672,7 +671,6 @@ func (s *minBowlInBoxDirection) update(step, change *[3]float32) {
 			}
 		}
 		{
-
 			a, b := outer*step[2]-rho*hy[2], rho*step[2]
 			{
 				s.h[2][0] += a*step[0] - b*hy[0]
