@@ -93,21 +93,10 @@ func (s *direction) firstTrial(t, slope, now elem) elem {
 	}
 }
 
-// curvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
-// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
-// that float32 does not overflow, with u the unit roundoff, so that the updated
-// matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
-// practice: below it, sᵀy is within rounding of zero.
-func curvatureSafe(s, y *vec) bool {
-	return curvatureSafeFrom(pairProducts(s, y))
-}
-
-// pairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
-// sum in the order dot takes, so the products are dot's bit for bit, with
-// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
-// instructions, callgrind).
+// pairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair, each
+// sum in the order dot takes, so the products are dot's bit for bit: one
+// pass instead of three saved 3.3 % of a Rosenbrock 2-D bfgs solve's
+// instructions (callgrind).
 func pairProducts(s, y *vec) (sy, ss, yy elem) {
 	for i := range s {
 		sy += s[i] * y[i]
@@ -117,8 +106,15 @@ func pairProducts(s, y *vec) (sy, ss, yy elem) {
 	return sy, ss, yy
 }
 
-// curvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
+// curvatureSafeFrom reports, from the products sᵀy, sᵀs and yᵀy (see
+// pairProducts; cg sums a fourth in the same pass), whether the pair
+// (s, y) may enter a quasi-Newton update: sᵀy must be positive and not
+// negligible against ‖s‖‖y‖, tested as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is
+// (sᵀy)² > u·(sᵀs)(yᵀy) written so that float32 does not overflow, with
+// u the unit roundoff, so that the updated matrix stays positive definite
+// and well conditioned (Nocedal & Wright 2006, §6.1, condition 6.7). The
+// relative threshold √u·‖s‖‖y‖ is common practice: below it, sᵀy is
+// within rounding of zero.
 func curvatureSafeFrom(sy, ss, yy elem) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > unitRoundoff
 }

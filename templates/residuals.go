@@ -127,7 +127,7 @@ func residualGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *difference
 // scaled down by τ = min(1, |sᵀy♯|/|sᵀSs|) so that S shrinks with the
 // residuals. (They take y♯ = (J − J₋₁)ᵀr, which needs the previous
 // Jacobian kept; the two agree to first order.) A pair with yᵀs not safely
-// positive leaves S as it was (curvatureSafe). At the start S = 0; which
+// positive leaves S as it was (curvatureSafeFrom). At the start S = 0; which
 // model the next step solves with, chooseModel decides.
 //
 // References:

@@ -745,8 +745,15 @@ func bealeCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// bealeCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
+// bealeCGCentralCurvatureSafeFrom reports, from the products sᵀy, sᵀs and yᵀy (see
+// pairProducts; cg sums a fourth in the same pass), whether the pair
+// (s, y) may enter a quasi-Newton update: sᵀy must be positive and not
+// negligible against ‖s‖‖y‖, tested as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is
+// (sᵀy)² > u·(sᵀs)(yᵀy) written so that float32 does not overflow, with
+// u the unit roundoff, so that the updated matrix stays positive definite
+// and well conditioned (Nocedal & Wright 2006, §6.1, condition 6.7). The
+// relative threshold √u·‖s‖‖y‖ is common practice: below it, sᵀy is
+// within rounding of zero.
 func bealeCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > bealeCGCentralUnitRoundoff
 }

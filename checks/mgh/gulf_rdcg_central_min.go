@@ -761,8 +761,15 @@ func gulfRDCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// gulfRDCGCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (see pairProducts; cg sums a fourth in the same pass).
+// gulfRDCGCentralCurvatureSafeFrom reports, from the products sᵀy, sᵀs and yᵀy (see
+// pairProducts; cg sums a fourth in the same pass), whether the pair
+// (s, y) may enter a quasi-Newton update: sᵀy must be positive and not
+// negligible against ‖s‖‖y‖, tested as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is
+// (sᵀy)² > u·(sᵀs)(yᵀy) written so that float32 does not overflow, with
+// u the unit roundoff, so that the updated matrix stays positive definite
+// and well conditioned (Nocedal & Wright 2006, §6.1, condition 6.7). The
+// relative threshold √u·‖s‖‖y‖ is common practice: below it, sᵀy is
+// within rounding of zero.
 func gulfRDCGCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > gulfRDCGCentralUnitRoundoff
 }

@@ -691,10 +691,10 @@ func penaltyI10BFGSAnalyticDot(a, b *[10]float64) float64 {
 	return s
 }
 
-// penaltyI10BFGSAnalyticPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
-// sum in the order dot takes, so the products are dot's bit for bit, with
-// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
-// instructions, callgrind).
+// penaltyI10BFGSAnalyticPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair, each
+// sum in the order dot takes, so the products are dot's bit for bit: one
+// pass instead of three saved 3.3 % of a Rosenbrock 2-D bfgs solve's
+// instructions (callgrind).
 func penaltyI10BFGSAnalyticPairProducts(s, y *[10]float64) (sy, ss, yy float64) {
 	{
 		for i := 0; i < 8; i += 4 {
@@ -721,8 +721,15 @@ func penaltyI10BFGSAnalyticPairProducts(s, y *[10]float64) (sy, ss, yy float64) 
 	return sy, ss, yy
 }
 
-// penaltyI10BFGSAnalyticCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (see penaltyI10BFGSAnalyticPairProducts; cg sums a fourth in the same pass).
+// penaltyI10BFGSAnalyticCurvatureSafeFrom reports, from the products sᵀy, sᵀs and yᵀy (see
+// penaltyI10BFGSAnalyticPairProducts; cg sums a fourth in the same pass), whether the pair
+// (s, y) may enter a quasi-Newton update: sᵀy must be positive and not
+// negligible against ‖s‖‖y‖, tested as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is
+// (sᵀy)² > u·(sᵀs)(yᵀy) written so that float32 does not overflow, with
+// u the unit roundoff, so that the updated matrix stays positive definite
+// and well conditioned (Nocedal & Wright 2006, §6.1, condition 6.7). The
+// relative threshold √u·‖s‖‖y‖ is common practice: below it, sᵀy is
+// within rounding of zero.
 func penaltyI10BFGSAnalyticCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > penaltyI10BFGSAnalyticUnitRoundoff
 }

@@ -709,10 +709,10 @@ func watson6LBFGSCentralNegate(out, x *[6]float64) {
 	}
 }
 
-// watson6LBFGSCentralPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair: each
-// sum in the order dot takes, so the products are dot's bit for bit, with
-// the pair loaded once (at two unknowns this took 3 % of a bfgs solve's
-// instructions, callgrind).
+// watson6LBFGSCentralPairProducts returns sᵀy, sᵀs and yᵀy in one pass over the pair, each
+// sum in the order dot takes, so the products are dot's bit for bit: one
+// pass instead of three saved 3.3 % of a Rosenbrock 2-D bfgs solve's
+// instructions (callgrind).
 func watson6LBFGSCentralPairProducts(s, y *[6]float64) (sy, ss, yy float64) {
 	{
 		for i := 0; i < 4; i += 4 {
@@ -739,8 +739,15 @@ func watson6LBFGSCentralPairProducts(s, y *[6]float64) (sy, ss, yy float64) {
 	return sy, ss, yy
 }
 
-// watson6LBFGSCentralCurvatureSafeFrom is curvatureSafe from the three products sᵀy, sᵀs
-// and yᵀy (see watson6LBFGSCentralPairProducts; cg sums a fourth in the same pass).
+// watson6LBFGSCentralCurvatureSafeFrom reports, from the products sᵀy, sᵀs and yᵀy (see
+// watson6LBFGSCentralPairProducts; cg sums a fourth in the same pass), whether the pair
+// (s, y) may enter a quasi-Newton update: sᵀy must be positive and not
+// negligible against ‖s‖‖y‖, tested as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is
+// (sᵀy)² > u·(sᵀs)(yᵀy) written so that float32 does not overflow, with
+// u the unit roundoff, so that the updated matrix stays positive definite
+// and well conditioned (Nocedal & Wright 2006, §6.1, condition 6.7). The
+// relative threshold √u·‖s‖‖y‖ is common practice: below it, sᵀy is
+// within rounding of zero.
 func watson6LBFGSCentralCurvatureSafeFrom(sy, ss, yy float64) bool {
 	return sy > 0 && (sy/ss)*(sy/yy) > watson6LBFGSCentralUnitRoundoff
 }
